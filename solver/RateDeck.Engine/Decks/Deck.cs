@@ -1,0 +1,189 @@
+namespace RateDeck.Decks;
+
+/// <summary>
+/// A validated deck: everything the later stages need, with the source span of each user-given
+/// item so that a problem found downstream can still be reported at the right place.
+/// Produced by the deck reader; nothing in it has been evaluated beyond what validation needs.
+/// </summary>
+public sealed record Deck
+{
+    /// <summary>The deck file as given on the command line.</summary>
+    public required string SourcePath { get; init; }
+
+    /// <summary>Lower-case hex SHA-256 of the deck file's bytes (before overrides).</summary>
+    public required string Sha256 { get; init; }
+
+    /// <summary>The deck's title.</summary>
+    public required string Title { get; init; }
+
+    /// <summary>The deck format version (1).</summary>
+    public required int FormatVersion { get; init; }
+
+    /// <summary>The unit of every energy in the deck, kT included.</summary>
+    public required EnergyUnit EnergyUnit { get; init; }
+
+    /// <summary>The unit of time, a label carried into outputs (rates are per this unit).</summary>
+    public required string TimeUnit { get; init; }
+
+    /// <summary>kT in <see cref="EnergyUnit"/> (a temperature in kelvin is already converted).</summary>
+    public required double KT { get; init; }
+
+    /// <summary>Where kT was set.</summary>
+    public required SourceSpan KTSpan { get; init; }
+
+    /// <summary>The states.</summary>
+    public required GridSpec Grid { get; init; }
+
+    /// <summary>Energy (or action) of each state, in <see cref="EnergyUnit"/>.</summary>
+    public required PerStateSource Energies { get; init; }
+
+    /// <summary>Statistical weights (degeneracy or density of states times cell width).</summary>
+    public required WeightSpec Weights { get; init; }
+
+    /// <summary>Where the off-diagonal rates come from.</summary>
+    public required CouplingSpec Coupling { get; init; }
+
+    /// <summary>Sink rate of each state (per time unit); null when the deck has none.</summary>
+    public PerStateSource? Losses { get; init; }
+
+    /// <summary>Injection rate into each state (population per time unit); null when none.</summary>
+    public PerStateSource? Pumping { get; init; }
+
+    /// <summary>The populations at t = 0.</summary>
+    public required InitialSpec Initial { get; init; }
+
+    /// <summary>Time span, output grid and explicit step.</summary>
+    public required RunSpec Run { get; init; }
+
+    /// <summary>A one-degree-of-freedom Lagrangian, when weights are derived from mechanics.</summary>
+    public MechanicsSpec? Mechanics { get; init; }
+
+    /// <summary>Named values usable in every expression, after overrides.</summary>
+    public required IReadOnlyDictionary<string, DeckParameter> Parameters { get; init; }
+
+    /// <summary>The <c>--set key=value</c> overrides applied, as given, in order.</summary>
+    public required IReadOnlyList<string> Overrides { get; init; }
+}
+
+/// <summary>A named deck parameter.</summary>
+public sealed record DeckParameter(string Name, double Value, SourceSpan Span);
+
+/// <summary>
+/// The resolved state grid. <see cref="CellWidths"/> is the width dx of each state's cell, used by
+/// the isotropic measure: uniform for a linear grid, x * d(ln x) for a logarithmic one, and half the
+/// distance between neighbours (the end cells mirrored) for an explicit list.
+/// </summary>
+public sealed record GridSpec(double[] Coordinates, string[] Labels, double[] CellWidths, SourceSpan Span)
+{
+    /// <summary>Number of states.</summary>
+    public int Count => Coordinates.Length;
+}
+
+/// <summary>A per-state quantity: explicit values or an expression of the state.</summary>
+public abstract record PerStateSource(SourceSpan Span);
+
+/// <summary>One value per state, in grid order.</summary>
+public sealed record PerStateValues(double[] Values, SourceSpan Span) : PerStateSource(Span);
+
+/// <summary>
+/// An expression evaluated for each state with variables <c>x</c> (coordinate), <c>i</c>
+/// (zero-based index), <c>kT</c> and the deck parameters. <see cref="PerStateSource.Span"/> points
+/// at the first character of the expression text inside the deck.
+/// </summary>
+public sealed record PerStateExpression(string Text, SourceSpan Span) : PerStateSource(Span);
+
+/// <summary>How the statistical weights are given.</summary>
+public abstract record WeightSpec(SourceSpan Span);
+
+/// <summary>Weights given per state (values or expression).</summary>
+public sealed record GivenWeights(PerStateSource Source) : WeightSpec(Source.Span);
+
+/// <summary>
+/// The isotropic d-dimensional measure S_{d-1} x^(d-1) dx with S_{d-1} = 2 pi^(d/2) / Gamma(d/2).
+/// </summary>
+public sealed record IsotropicWeights(int Dimension, SourceSpan Span) : WeightSpec(Span);
+
+/// <summary>Weights g(E) = T(E) / h from the deck's Lagrangian (see <see cref="MechanicsSpec"/>).</summary>
+public sealed record MechanicsWeights(SourceSpan Span) : WeightSpec(Span);
+
+/// <summary>Which way a measured or modelled one-directional transfer goes.</summary>
+public enum TransferDirection
+{
+    /// <summary>From a state to states of smaller coordinate.</summary>
+    TowardSmaller,
+    /// <summary>From a state to states of larger coordinate.</summary>
+    TowardLarger,
+}
+
+/// <summary>One off-diagonal coefficient: the rate from state <see cref="From"/> to <see cref="To"/>.</summary>
+public sealed record RateEntry(int From, int To, double Rate, SourceSpan Span);
+
+/// <summary>Where the off-diagonal rates come from.</summary>
+public abstract record CouplingSpec(SourceSpan Span);
+
+/// <summary>Measured rates for one direction, completed by detailed balance.</summary>
+public sealed record MeasuredOneWay(TransferDirection Direction, IReadOnlyList<RateEntry> Entries, SourceSpan Span)
+    : CouplingSpec(Span);
+
+/// <summary>A full measured rate matrix, taken as is (detailed balance is checked, not imposed).</summary>
+public sealed record MeasuredFull(IReadOnlyList<RateEntry> Entries, SourceSpan Span) : CouplingSpec(Span);
+
+/// <summary>
+/// A model kernel W(x -> y) for <see cref="Direction"/>, completed by detailed balance.
+/// Variables: <c>x</c>, <c>y</c> (source and target coordinates), <c>i</c>, <c>j</c> (their
+/// indices), <c>kT</c> and the deck parameters. <see cref="Band"/> keeps only pairs with
+/// |i - j| &lt;= band (1 = nearest neighbours); null keeps all pairs.
+/// </summary>
+public sealed record KernelModel(string Text, TransferDirection Direction, int? Band, SourceSpan Span)
+    : CouplingSpec(Span);
+
+/// <summary>The populations at t = 0.</summary>
+public abstract record InitialSpec(SourceSpan Span);
+
+/// <summary>All population in one state.</summary>
+public sealed record InitialInState(int State, SourceSpan Span) : InitialSpec(Span);
+
+/// <summary>Populations given per state (values or expression).</summary>
+public sealed record InitialGiven(PerStateSource Source) : InitialSpec(Source.Span);
+
+/// <summary>The normalised equilibrium distribution pi.</summary>
+public sealed record InitialEquilibrium(SourceSpan Span) : InitialSpec(Span);
+
+/// <summary>Spacing of the output times.</summary>
+public enum OutputSpacing
+{
+    /// <summary>Evenly spaced from 0 to t_end.</summary>
+    Linear,
+    /// <summary>t = 0, then logarithmically spaced from t_first to t_end.</summary>
+    Logarithmic,
+}
+
+/// <summary>The explicit integrator run beside the exact propagator.</summary>
+public enum ExplicitMethod
+{
+    /// <summary>Forward Euler, first order.</summary>
+    Euler,
+    /// <summary>Classical fourth-order Runge-Kutta.</summary>
+    RungeKutta4,
+}
+
+/// <summary>
+/// Time span, output grid and explicit step. <see cref="Dt"/> null means automatic:
+/// <see cref="SafetyFactor"/> times the explicit method's stability limit.
+/// </summary>
+public sealed record RunSpec(
+    double EndTime,
+    int OutputCount,
+    OutputSpacing Spacing,
+    double? FirstTime,
+    ExplicitMethod Method,
+    double? Dt,
+    double SafetyFactor,
+    IReadOnlyList<int> PlotStates,
+    SourceSpan Span);
+
+/// <summary>
+/// A one-degree-of-freedom Lagrangian L(q, v) (variables <c>q</c>, <c>v</c>, <c>kT</c> and the
+/// deck parameters) and Planck's constant h in the deck's units, for weights g(E) = T(E) / h.
+/// </summary>
+public sealed record MechanicsSpec(string Lagrangian, double Planck, SourceSpan Span);

@@ -1,0 +1,42 @@
+namespace RateDeck.States;
+
+/// <summary>
+/// The states of a deck with everything evaluated: coordinates, energies, the logarithm of each
+/// weight and the logarithm of the normalised equilibrium distribution
+/// ln pi_i = ln g_i - E_i / kT - ln Z. Only logarithms are stored because Boltzmann factors of real
+/// decks span hundreds of decades.
+/// </summary>
+public sealed class StateSpace
+{
+    /// <summary>Creates a state space; <paramref name="logEquilibrium"/> must be normalised (log-sum-exp = 0).</summary>
+    public StateSpace(string[] labels, double[] coordinates, double[] energies, double[] logWeights, double kT, double[] logEquilibrium)
+    {
+        Labels = labels;
+        Coordinates = coordinates;
+        Energies = energies;
+        LogWeights = logWeights;
+        KT = kT;
+        LogEquilibrium = logEquilibrium;
+    }
+
+    /// <summary>Number of states.</summary>
+    public int Count => Labels.Length;
+
+    /// <summary>State labels, unique.</summary>
+    public string[] Labels { get; }
+
+    /// <summary>State coordinates x_i.</summary>
+    public double[] Coordinates { get; }
+
+    /// <summary>Energies E_i in the deck's energy unit.</summary>
+    public double[] Energies { get; }
+
+    /// <summary>ln g_i.</summary>
+    public double[] LogWeights { get; }
+
+    /// <summary>kT in the deck's energy unit.</summary>
+    public double KT { get; }
+
+    /// <summary>ln pi_i, normalised so that sum_i pi_i = 1.</summary>
+    public double[] LogEquilibrium { get; }
+}

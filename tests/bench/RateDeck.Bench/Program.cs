@@ -1,0 +1,1 @@
+Console.WriteLine("benchmarks arrive with the native linear-algebra work");
