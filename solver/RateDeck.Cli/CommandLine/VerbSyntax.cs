@@ -1,0 +1,70 @@
+using RateDeck.Text;
+
+namespace RateDeck.Cli.CommandLine;
+
+/// <summary>
+/// What one verb accepts: its flags and valued options besides the deck and <c>--set</c>.
+/// Parsing is deliberately small and strict: an unknown option is an error with a hint.
+/// </summary>
+public sealed record VerbSyntax(string Verb, string Summary, IReadOnlyList<OptionSpec> Options)
+{
+    /// <summary>Options every verb accepts.</summary>
+    public static readonly IReadOnlyList<OptionSpec> Common =
+    [
+        new("--set", "KEY=VALUE", "override a deck parameter or key (repeatable)"),
+        new("--json", null, "print one JSON object on stdout instead of the summary"),
+        new("--linalg", "auto|native|managed", "linear-algebra provider (default auto, or RATEDECK_LINALG)"),
+    ];
+
+    /// <summary>Parses <paramref name="args"/> (the verb itself excluded).</summary>
+    public ParsedArguments Parse(IReadOnlyList<string> args)
+    {
+        var known = Common.Concat(Options).ToDictionary(o => o.Name);
+        string? deck = null;
+        var overrides = new List<string>();
+        var values = new Dictionary<string, string>();
+        var flags = new HashSet<string>();
+        for (var k = 0; k < args.Count; k++)
+        {
+            var arg = args[k];
+            if (!arg.StartsWith("--", StringComparison.Ordinal))
+            {
+                deck = deck is null ? arg : throw new UsageException($"{Verb} takes one deck; '{deck}' and '{arg}' were given");
+                continue;
+            }
+
+            var (name, inline) = SplitInlineValue(arg);
+            if (!known.TryGetValue(name, out var option))
+            {
+                throw new UsageException($"{Verb} has no option '{name}'{Suggestions.DidYouMean(name, known.Keys)}; see 'ratedeck help {Verb}'");
+            }
+
+            if (option.ValueName is null)
+            {
+                flags.Add(name);
+                continue;
+            }
+
+            var value = inline ?? (k + 1 < args.Count ? args[++k] : throw new UsageException($"{name} needs a value ({option.ValueName})"));
+            if (name == "--set")
+            {
+                overrides.Add(value);
+            }
+            else
+            {
+                values[name] = value;
+            }
+        }
+
+        return new ParsedArguments(deck ?? throw new UsageException($"{Verb} needs a deck file: ratedeck {Verb} DECK"), overrides, values, flags);
+    }
+
+    private static (string Name, string? Value) SplitInlineValue(string arg)
+    {
+        var equals = arg.IndexOf('=', StringComparison.Ordinal);
+        return equals < 0 ? (arg, null) : (arg[..equals], arg[(equals + 1)..]);
+    }
+}
+
+/// <summary>An option: its name, the placeholder of its value (null for a flag) and its help text.</summary>
+public sealed record OptionSpec(string Name, string? ValueName, string Help);

@@ -1,0 +1,25 @@
+namespace RateDeck.Cli;
+
+/// <summary>
+/// The documented exit codes of every verb (docs/cli.md). Scripts rely on them: keep them stable.
+/// </summary>
+public static class ExitCodes
+{
+    /// <summary>Finished; every check asked for passed.</summary>
+    public const int Success = 0;
+
+    /// <summary>An internal error: a bug in RateDeck. The message asks for a report.</summary>
+    public const int InternalError = 1;
+
+    /// <summary>A bad deck, CSV file, override or command line.</summary>
+    public const int BadInput = 2;
+
+    /// <summary>The explicit time step is above a stability or positivity limit.</summary>
+    public const int UnsafeTimeStep = 3;
+
+    /// <summary>The deck is well formed but its rate matrix fails a sanity check, or has no steady state.</summary>
+    public const int CheckFailed = 4;
+
+    /// <summary>An output file or folder could not be written.</summary>
+    public const int OutputFailed = 5;
+}

@@ -1,0 +1,16 @@
+using RateDeck.Cli.CommandLine;
+
+namespace RateDeck.Cli.Verbs;
+
+/// <summary>One command-line verb.</summary>
+public interface IVerb
+{
+    /// <summary>The verb's name, options and one-line summary.</summary>
+    VerbSyntax Syntax { get; }
+
+    /// <summary>Runs the verb and returns an exit code from <see cref="ExitCodes"/>.</summary>
+    int Execute(ParsedArguments args, VerbContext context);
+}
+
+/// <summary>Where a verb writes: the summary on stdout, diagnostics and progress on stderr.</summary>
+public sealed record VerbContext(TextWriter Out, TextWriter Error);

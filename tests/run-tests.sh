@@ -1,0 +1,46 @@
+#!/usr/bin/env bash
+# Runs the whole test suite once per linear-algebra provider (managed always; native when the
+# system's OpenBLAS loads) and ends with one line "N passed, N failed[, N skipped]" summed from the
+# real results of every run. Exit status is non-zero when a build or any test failed.
+set -u
+cd "$(dirname "$0")/.."
+
+results=$(mktemp -d)
+trap 'rm -rf "$results"' EXIT
+status=0
+
+if ! dotnet build RateDeck.sln -c Release --nologo -v quiet; then
+    echo "build failed"
+    echo "0 passed, 0 failed"
+    exit 1
+fi
+
+providers="managed"
+if ldconfig -p 2>/dev/null | grep -q 'libopenblas\.so\.0'; then
+    providers="managed native"
+else
+    echo "note: libopenblas.so.0 not found; the native provider is not tested (apt-get install libopenblas0)"
+fi
+
+for provider in $providers; do
+    echo "== test suite with RATEDECK_LINALG=$provider"
+    RATEDECK_LINALG=$provider dotnet test RateDeck.sln -c Release --no-build --nologo \
+        --logger "trx;LogFileName=$provider.trx" --results-directory "$results" || status=1
+done
+
+passed=0; failed=0; skipped=0
+for trx in "$results"/*.trx; do
+    [ -f "$trx" ] || continue
+    counters=$(grep -o '<Counters [^>]*>' "$trx" | head -n 1)
+    value() { echo "$counters" | sed -n "s/.* $1=\"\([0-9]*\)\".*/\1/p"; }
+    passed=$((passed + $(value passed)))
+    failed=$((failed + $(value failed)))
+    skipped=$((skipped + $(value notExecuted)))
+done
+
+if [ "$passed" -eq 0 ] && [ "$failed" -eq 0 ]; then
+    echo "no test results were found"
+    status=1
+fi
+echo "$passed passed, $failed failed, $skipped skipped"
+exit $status
