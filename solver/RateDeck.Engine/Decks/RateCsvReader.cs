@@ -28,7 +28,8 @@ internal static class RateCsvReader
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
             var reason = e is FileNotFoundException or DirectoryNotFoundException ? "no such file" : e.Message;
-            throw new DeckException(reference, $"cannot read the rate file {displayPath} ({reason}; looked for {fullPath})");
+            var looked = fullPath == displayPath ? "" : $"; looked for {fullPath}";
+            throw new DeckException(reference, $"cannot read the rate file {displayPath} ({reason}{looked})");
         }
 
         var options = new CsvReaderOptions

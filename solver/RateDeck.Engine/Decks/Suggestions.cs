@@ -6,19 +6,23 @@ internal static class Suggestions
     /// <summary>
     /// The known name closest to <paramref name="given"/>, ignoring case, when it is close enough to
     /// be a likely typo: an edit distance of at most 1 for names up to 4 characters, 2 up to 8, and
-    /// 3 beyond (common practice for spelling hints).
+    /// 3 beyond (common practice for spelling hints). Among equally distant names the one of the
+    /// nearest length wins, so <c>k1O</c> suggests <c>k10</c> rather than <c>k1</c>.
     /// </summary>
     public static string? Closest(string given, IEnumerable<string> known)
     {
         string? best = null;
         var bestDistance = int.MaxValue;
+        var bestLengthGap = int.MaxValue;
         foreach (var candidate in known)
         {
             var distance = Distance(given.ToLowerInvariant(), candidate.ToLowerInvariant());
-            if (distance < bestDistance)
+            var lengthGap = Math.Abs(candidate.Length - given.Length);
+            if (distance < bestDistance || (distance == bestDistance && lengthGap < bestLengthGap))
             {
                 best = candidate;
                 bestDistance = distance;
+                bestLengthGap = lengthGap;
             }
         }
 
