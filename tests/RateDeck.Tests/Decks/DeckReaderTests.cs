@@ -9,14 +9,14 @@ public sealed class DeckReaderTests : IDisposable
 {
     private readonly DeckScratch _scratch = new();
 
-    private const string Kernel = "kind = \"kernel\"\nkernel = \"1\"\ndirection = \"toward_larger\"";
+    private const string _kernel = "kind = \"kernel\"\nkernel = \"1\"\ndirection = \"toward_larger\"";
 
     public void Dispose() => _scratch.Dispose();
 
     [Fact]
     public void ExplicitStates_GetHalfNeighbourDistanceCellsWithMirroredEnds()
     {
-        var deck = _scratch.Parse(DeckScratch.Valid(states: "coordinates = [1.0, 2.0, 4.0, 8.0]", energies: "expression = \"x\"", weights: "values = [1, 1, 1, 1]", transfer: Kernel));
+        var deck = _scratch.Parse(DeckScratch.Valid(states: "coordinates = [1.0, 2.0, 4.0, 8.0]", energies: "expression = \"x\"", weights: "values = [1, 1, 1, 1]", transfer: _kernel));
         Assert.Equal(["s1", "s2", "s3", "s4"], deck.Grid.Labels);
         // (x2 - x1), (x3 - x1)/2, (x4 - x2)/2, (x4 - x3): the deck-format definition.
         Assert.Equal([1.0, 1.5, 3.0, 4.0], deck.Grid.CellWidths);
@@ -26,7 +26,7 @@ public sealed class DeckReaderTests : IDisposable
     [Fact]
     public void LinearGrid_IncludesBothEndsWithUniformCells()
     {
-        var deck = _scratch.Parse(DeckScratch.Valid(states: "spacing = \"linear\"\ncount = 5\nfrom = 0.0\nto = 2.0", energies: "expression = \"x\"", weights: "expression = \"1\"", transfer: Kernel));
+        var deck = _scratch.Parse(DeckScratch.Valid(states: "spacing = \"linear\"\ncount = 5\nfrom = 0.0\nto = 2.0", energies: "expression = \"x\"", weights: "expression = \"1\"", transfer: _kernel));
         Assert.Equal([0.0, 0.5, 1.0, 1.5, 2.0], deck.Grid.Coordinates);
         Assert.All(deck.Grid.CellWidths, w => Assert.Equal(0.5, w, 1e-15));
     }
@@ -34,7 +34,7 @@ public sealed class DeckReaderTests : IDisposable
     [Fact]
     public void LogGrid_IsGeometricWithCellsXTimesDLogX()
     {
-        var deck = _scratch.Parse(DeckScratch.Valid(states: "spacing = \"log\"\ncount = 4\nfrom = 1.0\nto = 1000.0\nlabel_prefix = \"k\"", energies: "expression = \"x\"", weights: "isotropic_dimension = 3", transfer: Kernel));
+        var deck = _scratch.Parse(DeckScratch.Valid(states: "spacing = \"log\"\ncount = 4\nfrom = 1.0\nto = 1000.0\nlabel_prefix = \"k\"", energies: "expression = \"x\"", weights: "isotropic_dimension = 3", transfer: _kernel));
         Assert.Equal(["k1", "k2", "k3", "k4"], deck.Grid.Labels);
         var expected = new[] { 1.0, 10.0, 100.0, 1000.0 };
         var dLog = Math.Log(10.0);
