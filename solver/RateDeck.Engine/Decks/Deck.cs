@@ -87,8 +87,9 @@ public sealed record PerStateValues(double[] Values, SourceSpan Span) : PerState
 
 /// <summary>
 /// An expression evaluated for each state with variables <c>x</c> (coordinate), <c>i</c>
-/// (the one-based state number, i = 1..N as in SPEC 2), <c>kT</c> and the deck parameters. <see cref="PerStateSource.Span"/> points
-/// at the first character of the expression text inside the deck.
+/// (the one-based state number, i = 1..N as in SPEC 2), <c>kT</c> and the deck parameters.
+/// <see cref="PerStateSource.Span"/> points at the first character of the expression text inside
+/// the deck.
 /// </summary>
 public sealed record PerStateExpression(string Text, SourceSpan Span) : PerStateSource(Span);
 
@@ -134,8 +135,8 @@ public sealed record MeasuredFull(IReadOnlyList<RateEntry> Entries, SourceSpan S
 /// <summary>
 /// A model kernel W(x -> y) for <see cref="Direction"/>, completed by detailed balance.
 /// Variables: <c>x</c>, <c>y</c> (source and target coordinates), <c>i</c>, <c>j</c> (their
-/// one-based state numbers), <c>kT</c> and the deck parameters. <see cref="Band"/> keeps only pairs with
-/// |i - j| &lt;= band (1 = nearest neighbours); null keeps all pairs.
+/// one-based state numbers), <c>kT</c> and the deck parameters. <see cref="Band"/> keeps only
+/// pairs with |i - j| &lt;= band (1 = nearest neighbours); null keeps all pairs.
 /// </summary>
 public sealed record KernelModel(string Text, TransferDirection Direction, int? Band, SourceSpan Span)
     : CouplingSpec(Span);
