@@ -87,8 +87,9 @@ public sealed record PerStateValues(double[] Values, SourceSpan Span) : PerState
 
 /// <summary>
 /// An expression evaluated for each state with variables <c>x</c> (coordinate), <c>i</c>
-/// (zero-based index), <c>kT</c> and the deck parameters. <see cref="PerStateSource.Span"/> points
-/// at the first character of the expression text inside the deck.
+/// (the one-based state number, i = 1..N as in SPEC 2), <c>kT</c> and the deck parameters.
+/// <see cref="PerStateSource.Span"/> points at the first character of the expression text inside
+/// the deck.
 /// </summary>
 public sealed record PerStateExpression(string Text, SourceSpan Span) : PerStateSource(Span);
 
@@ -115,7 +116,10 @@ public enum TransferDirection
     TowardLarger,
 }
 
-/// <summary>One off-diagonal coefficient: the rate from state <see cref="From"/> to <see cref="To"/>.</summary>
+/// <summary>
+/// One off-diagonal coefficient: the rate from state <see cref="From"/> to <see cref="To"/>, both
+/// zero-based indices into the grid. <see cref="Span"/> is the rate's cell in the CSV file.
+/// </summary>
 public sealed record RateEntry(int From, int To, double Rate, SourceSpan Span);
 
 /// <summary>Where the off-diagonal rates come from.</summary>
@@ -131,8 +135,8 @@ public sealed record MeasuredFull(IReadOnlyList<RateEntry> Entries, SourceSpan S
 /// <summary>
 /// A model kernel W(x -> y) for <see cref="Direction"/>, completed by detailed balance.
 /// Variables: <c>x</c>, <c>y</c> (source and target coordinates), <c>i</c>, <c>j</c> (their
-/// indices), <c>kT</c> and the deck parameters. <see cref="Band"/> keeps only pairs with
-/// |i - j| &lt;= band (1 = nearest neighbours); null keeps all pairs.
+/// one-based state numbers), <c>kT</c> and the deck parameters. <see cref="Band"/> keeps only
+/// pairs with |i - j| &lt;= band (1 = nearest neighbours); null keeps all pairs.
 /// </summary>
 public sealed record KernelModel(string Text, TransferDirection Direction, int? Band, SourceSpan Span)
     : CouplingSpec(Span);
@@ -140,7 +144,7 @@ public sealed record KernelModel(string Text, TransferDirection Direction, int? 
 /// <summary>The populations at t = 0.</summary>
 public abstract record InitialSpec(SourceSpan Span);
 
-/// <summary>All population in one state.</summary>
+/// <summary>All population (1) in one state, a zero-based index into the grid.</summary>
 public sealed record InitialInState(int State, SourceSpan Span) : InitialSpec(Span);
 
 /// <summary>Populations given per state (values or expression).</summary>
@@ -170,6 +174,10 @@ public enum ExplicitMethod
 /// <summary>
 /// Time span, output grid and explicit step. <see cref="Dt"/> null means automatic:
 /// <see cref="SafetyFactor"/> times the explicit method's stability limit.
+/// <see cref="OutputCount"/> is the number of output times after t = 0 (t = 0 is always
+/// written too); <see cref="FirstTime"/> is the first of them on a logarithmic grid and null on a
+/// linear one. <see cref="PlotStates"/> are zero-based indices into the grid (empty: the plotting
+/// stage chooses).
 /// </summary>
 public sealed record RunSpec(
     double EndTime,

@@ -1,0 +1,527 @@
+using System.Security.Cryptography;
+using System.Text;
+using System.Text.RegularExpressions;
+
+namespace RateDeck.Decks;
+
+/// <summary>
+/// Reads a deck (TOML, format 1, described in docs/deck-format.md) into a validated
+/// <see cref="Deck"/>. Every problem is a <see cref="DeckException"/> at the one-based line and
+/// column of the offending key, value or CSV cell. Expressions are stored as text with the span
+/// of their first character; they are compiled by a later stage.
+/// </summary>
+public static partial class DeckReader
+{
+    /// <summary>Names an expression may use besides the parameters; a parameter may not take them.</summary>
+    private static readonly string[] _reservedNames = ["x", "y", "i", "j", "kT", "q", "v"];
+
+    /// <summary>
+    /// Reads the deck file at <paramref name="path"/>, applies <paramref name="overrides"/>
+    /// (<c>key=value</c> each) and validates it. Relative CSV paths resolve against the deck's folder.
+    /// </summary>
+    /// <exception cref="DeckException">The file is missing or unreadable (span <c>SourceSpan.None(path)</c>), or the deck is invalid.</exception>
+    public static Deck Read(string path, IReadOnlyList<string> overrides)
+    {
+        byte[] bytes;
+        try
+        {
+            bytes = File.ReadAllBytes(path);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            var reason = e is FileNotFoundException or DirectoryNotFoundException ? "there is no such file" : e.Message;
+            throw new DeckException(SourceSpan.None(path), $"cannot read the deck: {reason}");
+        }
+
+        var text = new UTF8Encoding(false, true).GetString(StripBom(bytes));
+        return Parse(text, Sha256(bytes), path, Path.GetDirectoryName(path) ?? "", overrides);
+    }
+
+    /// <summary>
+    /// Reads a deck from <paramref name="text"/> as if it were the file <paramref name="path"/>
+    /// in <paramref name="baseDirectory"/> (where relative CSV paths resolve).
+    /// <see cref="Deck.Sha256"/> is the hash of the text's UTF-8 bytes.
+    /// </summary>
+    /// <exception cref="DeckException">The deck is invalid.</exception>
+    public static Deck Parse(string text, string path, string baseDirectory, IReadOnlyList<string> overrides)
+        => Parse(text, Sha256(Encoding.UTF8.GetBytes(text)), path, baseDirectory, overrides);
+
+    private static Deck Parse(string text, string sha256, string path, string baseDirectory, IReadOnlyList<string> overrides)
+    {
+        var root = TomlTree.ParseDocument(text, path);
+        DeckSchema.Check(root);
+        Overrides.Apply(root, overrides);
+        return new Builder(root, path, baseDirectory).Build(sha256, overrides);
+    }
+
+    private static string Sha256(byte[] bytes) => Convert.ToHexStringLower(SHA256.HashData(bytes));
+
+    private static byte[] StripBom(byte[] bytes)
+        => bytes is [0xEF, 0xBB, 0xBF, ..] ? bytes[3..] : bytes;
+
+    [GeneratedRegex("^[A-Za-z_][A-Za-z0-9_]*$")]
+    private static partial Regex IdentifierPattern();
+
+    /// <summary>Reads the tables of one deck in dependency order (the states before anything per state).</summary>
+    private sealed class Builder(TomlTableNode root, string path, string baseDirectory)
+    {
+        private readonly SourceSpan _deckSpan = SourceSpan.None(path);
+        private GridSpec _grid = null!;
+        private StateNames _states = null!;
+
+        public Deck Build(string sha256, IReadOnlyList<string> overrides)
+        {
+            var top = new DeckSection("", root, _deckSpan);
+            var format = ReadFormat(top);
+            var title = top.String("title") is { } t ? (string)t.Value : Path.GetFileNameWithoutExtension(path);
+            var units = Section("units");
+            var energyUnit = ReadEnergyUnit(units);
+            var timeUnit = ReadTimeUnit(units);
+            var (kT, kTSpan) = ReadTemperature(Section("temperature"), energyUnit);
+            var parameters = ReadParameters(Section("parameters"));
+            _grid = GridReader.Read(Section("states"));
+            _states = new StateNames(_grid.Labels);
+            var mechanics = ReadMechanics(Section("mechanics"), energyUnit, timeUnit);
+
+            return new Deck
+            {
+                SourcePath = path,
+                Sha256 = sha256,
+                Title = title,
+                FormatVersion = format,
+                EnergyUnit = energyUnit,
+                TimeUnit = timeUnit,
+                KT = kT,
+                KTSpan = kTSpan,
+                Grid = _grid,
+                Energies = ReadEnergies(Section("energies")),
+                Weights = ReadWeights(Section("weights"), mechanics),
+                Coupling = ReadTransfer(Section("transfer")),
+                Losses = ReadRates(Section("losses")),
+                Pumping = ReadRates(Section("pumping")),
+                Initial = ReadInitial(Section("initial")),
+                Run = ReadRun(Section("run")),
+                Mechanics = mechanics,
+                Parameters = parameters,
+                Overrides = overrides.ToArray(),
+            };
+        }
+
+        private DeckSection Section(string name) => new(name, root.Find(name)?.Value as TomlTableNode, _deckSpan);
+
+        private int ReadFormat(DeckSection top)
+        {
+            var node = top.Entry("format")?.Value ?? throw new DeckException(_deckSpan, "the deck must start with `format = 1` (the deck format version)");
+            var format = DeckSection.AsInteger(node, "format");
+            return format == 1 ? 1 : throw new DeckException(node.Span, $"this RateDeck reads deck format 1, not {format}");
+        }
+
+        private static EnergyUnit ReadEnergyUnit(DeckSection units)
+        {
+            var scalar = units.String("energy");
+            if (scalar is null)
+            {
+                return EnergyUnit.Dimensionless;
+            }
+
+            var name = (string)scalar.Value;
+            return EnergyUnits.TryParse(name, out var unit)
+                ? unit
+                : throw new DeckException(scalar.ContentSpan, $"unknown energy unit \"{name}\".{Suggestions.Hint(name, EnergyUnits.Names)} Choose one of {string.Join(", ", EnergyUnits.Names.Select(n => $"\"{n}\""))}.");
+        }
+
+        private static string ReadTimeUnit(DeckSection units)
+        {
+            if (units.String("time") is not { } scalar)
+            {
+                return "s";
+            }
+
+            var label = ((string)scalar.Value).Trim();
+            return label.Length > 0 && !label.Any(char.IsControl)
+                ? label
+                : throw new DeckException(scalar.ContentSpan, "`units.time` must be a short label on one line, like \"s\" or \"ms\"");
+        }
+
+        private static (double KT, SourceSpan Span) ReadTemperature(DeckSection temperature, EnergyUnit unit)
+        {
+            var choice = temperature.Choice(DeckSchema.Alternatives["temperature"]);
+            if (choice is null)
+            {
+                var where = temperature.Exists ? "[temperature] needs" : "the deck needs a [temperature] table with";
+                throw new DeckException(temperature.Span, $"{where} kT (in the energy unit) or kelvin");
+            }
+
+            var node = temperature.Entry(choice)!.Value;
+            var value = Positive(node, temperature.Qualified(choice));
+            if (choice == "kT")
+            {
+                return (value, node.Span);
+            }
+
+            if (unit == EnergyUnit.Dimensionless)
+            {
+                throw new DeckException(node.Span, "a temperature in kelvin needs a physical energy unit: set [units] energy = \"K\" (or eV, cm-1, J, kJ/mol), or give kT in model units");
+            }
+
+            return (EnergyUnits.KTFromKelvin(value, unit), node.Span);
+        }
+
+        private static Dictionary<string, DeckParameter> ReadParameters(DeckSection parameters)
+        {
+            var result = new Dictionary<string, DeckParameter>(StringComparer.Ordinal);
+            foreach (var entry in parameters.Entries)
+            {
+                if (!IdentifierPattern().IsMatch(entry.Key))
+                {
+                    throw new DeckException(entry.KeySpan, $"a parameter name must be letters, digits and underscores, starting with a letter: `{entry.Key}`");
+                }
+
+                if (_reservedNames.Contains(entry.Key))
+                {
+                    throw new DeckException(entry.KeySpan, $"`{entry.Key}` is a variable of the expressions ({string.Join(", ", _reservedNames)}); give the parameter another name");
+                }
+
+                var value = DeckSection.AsNumber(entry.Value, parameters.Qualified(entry.Key));
+                result[entry.Key] = new DeckParameter(entry.Key, value, entry.Value.Span);
+            }
+
+            return result;
+        }
+
+        private PerStateSource ReadEnergies(DeckSection energies)
+        {
+            var choice = energies.Choice(DeckSchema.Alternatives["energies"]);
+            return choice switch
+            {
+                "values" => Values(energies, "values", (_, _) => { }),
+                "expression" => Expression(energies, "expression"),
+                _ => throw NoChoice(energies, "values = [...] (one energy per state) or expression = \"...\""),
+            };
+        }
+
+        private WeightSpec ReadWeights(DeckSection weights, MechanicsSpec? mechanics)
+        {
+            var choice = weights.Choice(DeckSchema.Alternatives["weights"]);
+            switch (choice)
+            {
+                case "values":
+                    return new GivenWeights(Values(weights, "values", (value, node) =>
+                    {
+                        if (value <= 0)
+                        {
+                            throw new DeckException(node.Span, $"a weight must be > 0, not {DeckSection.Format(value)}");
+                        }
+                    }));
+                case "expression":
+                    return new GivenWeights(Expression(weights, "expression"));
+                case "isotropic_dimension":
+                    return Isotropic(weights);
+                case "from_mechanics":
+                    var node = weights.Entry(choice)!.Value;
+                    if (!DeckSection.AsBool(node, "weights.from_mechanics"))
+                    {
+                        throw new DeckException(node.Span, "`weights.from_mechanics = false` chooses nothing; remove it or give values, expression or isotropic_dimension");
+                    }
+
+                    return mechanics is null
+                        ? throw new DeckException(node.Span, "weights from mechanics need a [mechanics] table with a lagrangian")
+                        : new MechanicsWeights(node.Span);
+                default:
+                    // No [weights]: every state counts once, the common choice for plain levels.
+                    if (weights.Exists)
+                    {
+                        throw NoChoice(weights, "values, expression, isotropic_dimension or from_mechanics = true");
+                    }
+
+                    return new GivenWeights(new PerStateValues(Enumerable.Repeat(1.0, _grid.Count).ToArray(), _deckSpan));
+            }
+        }
+
+        private IsotropicWeights Isotropic(DeckSection weights)
+        {
+            var node = weights.Entry("isotropic_dimension")!.Value;
+            var dimension = DeckSection.AsInteger(node, "weights.isotropic_dimension");
+            if (dimension < 1 || dimension > 1000)
+            {
+                throw new DeckException(node.Span, $"`weights.isotropic_dimension` must be between 1 and 1000, not {dimension}");
+            }
+
+            var first = Array.FindIndex(_grid.Coordinates, x => x <= 0);
+            if (first >= 0)
+            {
+                throw new DeckException(node.Span, $"an isotropic measure needs coordinates > 0 (radii in wave-number space); state {_grid.Labels[first]} has x = {DeckSection.Format(_grid.Coordinates[first])}");
+            }
+
+            return new IsotropicWeights((int)dimension, node.Span);
+        }
+
+        private CouplingSpec ReadTransfer(DeckSection transfer)
+        {
+            var kind = transfer.Word("kind", ["one_way", "full", "kernel"])
+                ?? throw transfer.Missing("kind", "\"one_way\", \"full\" or \"kernel\"");
+            switch (kind)
+            {
+                case "one_way":
+                    transfer.Forbid("kernel", "kind = \"one_way\" reads measured rates from `csv`");
+                    transfer.Forbid("band", "`band` applies to kind = \"kernel\" only");
+                    var direction = ReadDirection(transfer);
+                    var (entries, span) = ReadCsv(transfer, new RateCsvReader.Rules(direction));
+                    return new MeasuredOneWay(direction, entries, span);
+                case "full":
+                    transfer.Forbid("kernel", "kind = \"full\" reads measured rates from `csv`");
+                    transfer.Forbid("band", "`band` applies to kind = \"kernel\" only");
+                    transfer.Forbid("direction", "a full matrix gives both directions; detailed balance is checked, not imposed");
+                    var (all, fullSpan) = ReadCsv(transfer, new RateCsvReader.Rules(null));
+                    return new MeasuredFull(all, fullSpan);
+                default:
+                    transfer.Forbid("csv", "kind = \"kernel\" computes the rates from `kernel`");
+                    var text = transfer.RequireString("kernel", "the expression W(x -> y)");
+                    var kernelDirection = ReadDirection(transfer);
+                    int? band = null;
+                    if (transfer.Entry("band") is { } bandEntry)
+                    {
+                        var b = DeckSection.AsInteger(bandEntry.Value, "transfer.band");
+                        band = b >= 1 && b < int.MaxValue
+                            ? (int)b
+                            : throw new DeckException(bandEntry.Value.Span, $"`transfer.band` must be at least 1 (1 keeps nearest neighbours), not {b}");
+                    }
+
+                    return new KernelModel((string)text.Value, kernelDirection, band, text.ContentSpan);
+            }
+        }
+
+        private static TransferDirection ReadDirection(DeckSection transfer)
+            => transfer.Word("direction", ["toward_smaller", "toward_larger"]) switch
+            {
+                "toward_smaller" => TransferDirection.TowardSmaller,
+                "toward_larger" => TransferDirection.TowardLarger,
+                _ => throw transfer.Missing("direction", "\"toward_smaller\" or \"toward_larger\", the direction of the given rates"),
+            };
+
+        private (List<RateEntry> Entries, SourceSpan Span) ReadCsv(DeckSection transfer, RateCsvReader.Rules rules)
+        {
+            var csv = transfer.RequireString("csv", "the file of measured rates, columns from,to,rate");
+            var given = (string)csv.Value;
+            if (given.Trim().Length == 0)
+            {
+                throw new DeckException(csv.ContentSpan, "`transfer.csv` is empty; name the rate file, like \"rates.csv\"");
+            }
+
+            var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);
+            var entries = RateCsvReader.Read(display, Path.GetFullPath(display), csv.ContentSpan, _states, rules);
+            return (entries, csv.ContentSpan);
+        }
+
+        /// <summary>[losses] or [pumping]: optional, per time unit, never negative.</summary>
+        private PerStateSource? ReadRates(DeckSection section)
+        {
+            if (!section.Exists)
+            {
+                return null;
+            }
+
+            var choice = section.Choice(DeckSchema.Alternatives[section.Name]);
+            return choice switch
+            {
+                "values" => Values(section, "values", (value, node) => NonNegative(value, node, section.Qualified("values"))),
+                "expression" => Expression(section, "expression"),
+                "by_state" => ByState(section),
+                _ => throw NoChoice(section, "values = [...], expression = \"...\" or by_state = { label = rate }"),
+            };
+        }
+
+        private PerStateValues ByState(DeckSection section)
+        {
+            var node = section.Entry("by_state")!.Value;
+            if (node is not TomlTableNode table)
+            {
+                throw new DeckException(node.Span, $"`{section.Qualified("by_state")}` must be a table of state = rate, like {{ {_grid.Labels[0]} = 0.5 }}, not {node.Describe()}");
+            }
+
+            var values = new double[_grid.Count];
+            foreach (var entry in table.Entries)
+            {
+                if (entry.Value is TomlTableNode)
+                {
+                    throw new DeckException(entry.KeySpan, $"`{entry.Key}` is not a state label (a dotted key makes a table); quote a label that contains dots, like \"{entry.Key}\" = 1.0");
+                }
+
+                var state = _states.Resolve(entry.Key, entry.KeySpan);
+                var value = DeckSection.AsNumber(entry.Value, $"{section.Qualified("by_state")}.{entry.Key}");
+                NonNegative(value, entry.Value, section.Qualified("by_state"));
+                values[state] = value;
+            }
+
+            return new PerStateValues(values, node.Span);
+        }
+
+        private InitialSpec ReadInitial(DeckSection initial)
+        {
+            var choice = initial.Choice(DeckSchema.Alternatives["initial"]);
+            switch (choice)
+            {
+                case "state":
+                    var node = initial.Entry("state")!.Value;
+                    var span = node is TomlScalar s ? s.ContentSpan : node.Span;
+                    return new InitialInState(_states.Resolve(node, "initial.state"), span);
+                case "values":
+                    return new InitialGiven(Values(initial, "values", (value, n) => NonNegative(value, n, "initial.values")));
+                case "expression":
+                    return new InitialGiven(Expression(initial, "expression"));
+                case "equilibrium":
+                    var flag = initial.Entry("equilibrium")!.Value;
+                    return DeckSection.AsBool(flag, "initial.equilibrium")
+                        ? new InitialEquilibrium(flag.Span)
+                        : throw new DeckException(flag.Span, "`initial.equilibrium = false` chooses nothing; give state, values or expression instead");
+                default:
+                    return initial.Exists
+                        ? throw NoChoice(initial, "state, values, expression or equilibrium = true")
+                        : new InitialEquilibrium(_deckSpan);
+            }
+        }
+
+        private RunSpec ReadRun(DeckSection run)
+        {
+            var tEndNode = run.Require("t_end", "the end time of the run, > 0");
+            var tEnd = Positive(tEndNode, "run.t_end");
+
+            var outputs = 50L;
+            if (run.Entry("outputs") is { } outputsEntry)
+            {
+                outputs = DeckSection.AsInteger(outputsEntry.Value, "run.outputs");
+                if (outputs < 1 || outputs > 10_000_000)
+                {
+                    throw new DeckException(outputsEntry.Value.Span, $"`run.outputs` must be between 1 and 10000000, not {outputs}");
+                }
+            }
+
+            var spacing = run.Word("spacing", ["linear", "log"]) == "log" ? OutputSpacing.Logarithmic : OutputSpacing.Linear;
+            double? tFirst = null;
+            if (spacing == OutputSpacing.Logarithmic)
+            {
+                tFirst = tEnd * 1e-4;
+                if (run.Entry("t_first") is { } firstEntry)
+                {
+                    tFirst = Positive(firstEntry.Value, "run.t_first");
+                    if (tFirst >= tEnd)
+                    {
+                        throw new DeckException(firstEntry.Value.Span, $"`run.t_first` ({DeckSection.Format(tFirst.Value)}) must be smaller than `run.t_end` ({DeckSection.Format(tEnd)})");
+                    }
+                }
+            }
+            else
+            {
+                run.Forbid("t_first", "`t_first` starts a logarithmic output grid; set spacing = \"log\" or remove it");
+            }
+
+            var method = run.Word("explicit", ["rk4", "euler"]) == "euler" ? ExplicitMethod.Euler : ExplicitMethod.RungeKutta4;
+            var dt = ReadDt(run);
+            var safety = 0.5;
+            if (run.Entry("safety") is { } safetyEntry)
+            {
+                safety = DeckSection.AsNumber(safetyEntry.Value, "run.safety");
+                if (safety <= 0 || safety > 1)
+                {
+                    throw new DeckException(safetyEntry.Value.Span, $"`run.safety` is the fraction of the stability limit used by dt = \"auto\" and must be in (0, 1], not {DeckSection.Format(safety)}");
+                }
+            }
+
+            var plotStates = run.Array("plot_states") is { } plots
+                ? plots.Items.Select(item => _states.Resolve(item, "run.plot_states")).ToArray()
+                : [];
+            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span);
+        }
+
+        private static double? ReadDt(DeckSection run)
+        {
+            if (run.Entry("dt")?.Value is not { } node)
+            {
+                return null;
+            }
+
+            if (node is TomlScalar { Value: string word } scalar)
+            {
+                return word == "auto"
+                    ? null
+                    : throw new DeckException(scalar.ContentSpan, $"`run.dt` is a number > 0 or \"auto\", not \"{word}\"");
+            }
+
+            return Positive(node, "run.dt");
+        }
+
+        private static MechanicsSpec? ReadMechanics(DeckSection mechanics, EnergyUnit unit, string timeUnit)
+        {
+            if (!mechanics.Exists)
+            {
+                return null;
+            }
+
+            var lagrangian = mechanics.RequireString("lagrangian", "L(q, v) as an expression");
+            double planck;
+            if (mechanics.Entry("planck") is { } planckEntry)
+            {
+                planck = Positive(planckEntry.Value, "mechanics.planck");
+            }
+            else if (unit == EnergyUnit.Dimensionless)
+            {
+                planck = 1.0;
+            }
+            else if (timeUnit == "s")
+            {
+                planck = EnergyUnits.PlanckIn(unit);
+            }
+            else
+            {
+                throw mechanics.Missing("planck", $"h in {EnergyUnits.Name(unit)} times {timeUnit}; it has a default only for the time unit \"s\"");
+            }
+
+            return new MechanicsSpec((string)lagrangian.Value, planck, lagrangian.ContentSpan);
+        }
+
+        /// <summary>An array of one finite number per state, each passed to <paramref name="check"/>.</summary>
+        private PerStateValues Values(DeckSection section, string key, Action<double, TomlNode> check)
+        {
+            var array = section.Array(key)!;
+            if (array.Items.Count != _grid.Count)
+            {
+                throw new DeckException(array.Span, $"`{section.Qualified(key)}` has {array.Items.Count} values but there are {_grid.Count} states");
+            }
+
+            var values = new double[array.Items.Count];
+            for (var k = 0; k < values.Length; k++)
+            {
+                values[k] = DeckSection.AsNumber(array.Items[k], section.Qualified(key));
+                check(values[k], array.Items[k]);
+            }
+
+            return new PerStateValues(values, array.Span);
+        }
+
+        private static PerStateExpression Expression(DeckSection section, string key)
+        {
+            var text = section.String(key)!;
+            var expression = (string)text.Value;
+            return expression.Trim().Length > 0
+                ? new PerStateExpression(expression, text.ContentSpan)
+                : throw new DeckException(text.ContentSpan, $"`{section.Qualified(key)}` is empty; write an expression such as \"0.5 * x\"");
+        }
+
+        private static DeckException NoChoice(DeckSection section, string choices)
+            => new(section.Span, section.Exists ? $"[{section.Name}] needs one of {choices}" : $"the deck needs an [{section.Name}] table with {choices}");
+
+        private static double Positive(TomlNode node, string what)
+        {
+            var value = DeckSection.AsNumber(node, what);
+            return value > 0 ? value : throw new DeckException(node.Span, $"`{what}` must be > 0, not {DeckSection.Format(value)}");
+        }
+
+        private static void NonNegative(double value, TomlNode node, string what)
+        {
+            if (value < 0)
+            {
+                throw new DeckException(node.Span, $"`{what}` cannot be negative ({DeckSection.Format(value)}); rates and populations are >= 0");
+            }
+        }
+    }
+}

@@ -1,0 +1,219 @@
+using System.Globalization;
+using System.Text;
+using CsvHelper;
+
+namespace RateDeck.Decks;
+
+/// <summary>
+/// Reads a coefficient file: a header naming the columns <c>from</c>, <c>to</c> and <c>rate</c>
+/// (any order), then one row per rate. A state cell holds a label or a one-based state number.
+/// Lines starting with <c>#</c> are comments. Every problem is reported as
+/// <c>csvfile:line:column</c> of the offending cell.
+/// </summary>
+internal static class RateCsvReader
+{
+    private static readonly string[] _columns = ["from", "to", "rate"];
+
+    /// <summary>What the rows must satisfy besides being well formed.</summary>
+    /// <param name="Direction">For one-way data, the direction every row must go; null for a full matrix.</param>
+    public sealed record Rules(TransferDirection? Direction);
+
+    public static List<RateEntry> Read(string displayPath, string fullPath, SourceSpan reference, StateNames states, Rules rules)
+    {
+        byte[] bytes;
+        try
+        {
+            bytes = File.ReadAllBytes(fullPath);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            var reason = e is FileNotFoundException or DirectoryNotFoundException ? "no such file" : e.Message;
+            var looked = fullPath == displayPath ? "" : $"; looked for {fullPath}";
+            throw new DeckException(reference, $"cannot read the rate file {displayPath} ({reason}{looked})");
+        }
+
+        var options = new CsvReaderOptions
+        {
+            Separator = ',',
+            HasHeader = false,
+            CommentPrefix = '#',
+            TrimWhitespace = true,
+            TrackLineNumbers = true,
+            MalformedData = CsvMalformedDataHandling.Throw,
+        };
+        var file = new CsvFile(displayPath, bytes);
+        try
+        {
+            using var reader = CsvReader.Create(bytes, options);
+            return ReadRows(reader, file, states, rules);
+        }
+        catch (CsvFormatException e)
+        {
+            throw new DeckException(file.SpanAtByte(e.ByteOffset), $"the CSV cannot be read: {e.Message}");
+        }
+    }
+
+    private static List<RateEntry> ReadRows(CsvReader reader, CsvFile file, StateNames states, Rules rules)
+    {
+        if (!reader.Read())
+        {
+            throw new DeckException(new SourceSpan(file.Path, 1, 1), "the rate file is empty; it needs a header line `from,to,rate` and one row per rate");
+        }
+
+        var headerLine = (int)reader.LineNumber;
+        var header = ReadHeader(reader, file);
+        var entries = new List<RateEntry>();
+        var firstLine = new Dictionary<(int, int), int>();
+        while (reader.Read())
+        {
+            if (reader.FieldCount != _columns.Length)
+            {
+                var at = reader.FieldCount > _columns.Length ? file.Cell(reader, _columns.Length) : file.Cell(reader, 0);
+                throw new DeckException(at, $"this row has {reader.FieldCount} cells; every row needs {_columns.Length}: from,to,rate");
+            }
+
+            var fromSpan = file.Cell(reader, header["from"]);
+            var toSpan = file.Cell(reader, header["to"]);
+            var rateSpan = file.Cell(reader, header["rate"]);
+            var from = states.Resolve(NonEmpty(reader, header["from"], fromSpan), fromSpan);
+            var to = states.Resolve(NonEmpty(reader, header["to"], toSpan), toSpan);
+            var rate = ParseRate(NonEmpty(reader, header["rate"], rateSpan), rateSpan);
+
+            if (from == to)
+            {
+                throw new DeckException(toSpan, "a state cannot have a rate to itself: the diagonal of the rate matrix follows from conservation; remove this row");
+            }
+
+            if (rules.Direction is { } direction && (direction == TransferDirection.TowardSmaller ? to > from : to < from))
+            {
+                var declared = direction == TransferDirection.TowardSmaller ? "toward_smaller" : "toward_larger";
+                throw new DeckException(toSpan, $"this row goes against the declared direction = \"{declared}\" (the reverse rates are completed by detailed balance); fix the row or the direction");
+            }
+
+            if (firstLine.TryGetValue((from, to), out var line))
+            {
+                throw new DeckException(fromSpan, $"the rate from this state to that one is already given on line {line}; give each pair once");
+            }
+
+            firstLine[(from, to)] = fromSpan.Line;
+            entries.Add(new RateEntry(from, to, rate, rateSpan));
+        }
+
+        if (entries.Count == 0)
+        {
+            throw new DeckException(new SourceSpan(file.Path, headerLine, 1), "the rate file has a header but no rates; add rows from,to,rate");
+        }
+
+        return entries;
+    }
+
+    private static Dictionary<string, int> ReadHeader(CsvReader reader, CsvFile file)
+    {
+        var header = new Dictionary<string, int>(StringComparer.Ordinal);
+        for (var k = 0; k < reader.FieldCount; k++)
+        {
+            var name = reader.GetString(k);
+            var span = file.Cell(reader, k);
+            if (!_columns.Contains(name))
+            {
+                throw new DeckException(span, $"unknown column `{name}`.{Suggestions.Hint(name, _columns)} The header must name the columns from,to,rate.");
+            }
+
+            if (!header.TryAdd(name, k))
+            {
+                throw new DeckException(span, $"the column `{name}` is named twice");
+            }
+        }
+
+        foreach (var column in _columns)
+        {
+            if (!header.ContainsKey(column))
+            {
+                throw new DeckException(file.Cell(reader, 0), $"the header lacks the column `{column}`; it must name from,to,rate");
+            }
+        }
+
+        return header;
+    }
+
+    private static string NonEmpty(CsvReader reader, int index, SourceSpan span)
+    {
+        var text = reader.GetString(index);
+        return text.Length > 0 ? text : throw new DeckException(span, "this cell is empty");
+    }
+
+    private static double ParseRate(string text, SourceSpan span)
+    {
+        if (!double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var rate))
+        {
+            throw new DeckException(span, $"`{text}` is not a number; a rate is written like 2.5e3");
+        }
+
+        if (double.IsNaN(rate))
+        {
+            throw new DeckException(span, "a rate cannot be NaN; give a measured value or leave the row out");
+        }
+
+        if (double.IsInfinity(rate))
+        {
+            throw new DeckException(span, "a rate must be finite");
+        }
+
+        if (rate < 0)
+        {
+            throw new DeckException(span, $"a rate cannot be negative ({text}); rates are >= 0");
+        }
+
+        return rate;
+    }
+
+    /// <summary>The file's bytes, to turn byte offsets into one-based lines and character columns.</summary>
+    private sealed class CsvFile(string path, byte[] bytes)
+    {
+        public string Path { get; } = path;
+
+        /// <summary>
+        /// The span of cell <paramref name="index"/> of the current record: its first character
+        /// after leading spaces. The raw fields joined by separators are the raw record, so the
+        /// cell starts after the raw fields before it and one separator each.
+        /// </summary>
+        public SourceSpan Cell(CsvReader reader, int index)
+        {
+            var offset = reader.ByteOffset;
+            for (var k = 0; k < index; k++)
+            {
+                offset += reader.GetRawSpan(k).Length + 1;
+            }
+
+            var raw = reader.GetRawSpan(index);
+            var lead = 0;
+            while (lead < raw.Length && raw[lead] is (byte)' ' or (byte)'\t')
+            {
+                lead++;
+            }
+
+            return SpanAtByte(offset + lead);
+        }
+
+        public SourceSpan SpanAtByte(long offset)
+        {
+            var end = (int)Math.Clamp(offset, 0, bytes.Length);
+            var line = 1;
+            var lineStart = 0;
+            for (var k = 0; k < end; k++)
+            {
+                if (bytes[k] == (byte)'\n')
+                {
+                    line++;
+                    lineStart = k + 1;
+                }
+            }
+
+            // Skip a byte order mark so that columns count what an editor shows.
+            var bom = lineStart == 0 && bytes.AsSpan().StartsWith((ReadOnlySpan<byte>)[0xEF, 0xBB, 0xBF]) ? 3 : 0;
+            var from = Math.Min(lineStart + bom, end);
+            var column = Encoding.UTF8.GetCharCount(bytes, from, end - from) + 1;
+            return new SourceSpan(Path, line, column);
+        }
+    }
+}
