@@ -27,7 +27,7 @@ public static class Commands
         var verb = Verbs.FirstOrDefault(v => v.Syntax.Verb == args[0]);
         if (verb is null)
         {
-            stderr.WriteLine($"ratedeck: no verb '{args[0]}'{Suggestions.DidYouMean(args[0], Verbs.Select(v => v.Syntax.Verb))}; verbs: {string.Join(", ", Verbs.Select(v => v.Syntax.Verb))}");
+            stderr.WriteLine($"ratedeck: no verb '{args[0]}'.{Suggestions.Hint(args[0], Verbs.Select(v => v.Syntax.Verb))} The verbs are {string.Join(", ", Verbs.Select(v => v.Syntax.Verb))}");
             return ExitCodes.BadInput;
         }
 

@@ -36,7 +36,7 @@ public sealed record VerbSyntax(string Verb, string Summary, IReadOnlyList<Optio
             var (name, inline) = SplitInlineValue(arg);
             if (!known.TryGetValue(name, out var option))
             {
-                throw new UsageException($"{Verb} has no option '{name}'{Suggestions.DidYouMean(name, known.Keys)}; see 'ratedeck help {Verb}'");
+                throw new UsageException($"{Verb} has no option '{name}'.{Suggestions.Hint(name, known.Keys)} See 'ratedeck help {Verb}'.");
             }
 
             if (option.ValueName is null)

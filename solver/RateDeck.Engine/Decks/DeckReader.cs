@@ -1,3 +1,4 @@
+using RateDeck.Text;
 using System.Security.Cryptography;
 using System.Text;
 using System.Text.RegularExpressions;

@@ -1,3 +1,4 @@
+using RateDeck.Text;
 namespace RateDeck.Decks;
 
 /// <summary>

@@ -1,3 +1,4 @@
+using RateDeck.Text;
 using System.Globalization;
 
 namespace RateDeck.Decks;

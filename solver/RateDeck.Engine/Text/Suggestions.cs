@@ -1,29 +1,42 @@
 namespace RateDeck.Text;
 
-/// <summary>"Did you mean" hints for misspelt keys, options, states and names.</summary>
+/// <summary>"Did you mean" hints from the edit distance between a misspelt name and the known ones.</summary>
 public static class Suggestions
 {
     /// <summary>
-    /// The closest candidate within an edit distance of a third of the name's length (at least 1,
-    /// at most 3), formatted as <c> (did you mean 'x'?)</c>; empty when nothing is close.
+    /// The known name closest to <paramref name="given"/>, ignoring case, when it is close enough to
+    /// be a likely typo: an edit distance of at most 1 for names up to 4 characters, 2 up to 8, and
+    /// 3 beyond (common practice for spelling hints). Among equally distant names the one of the
+    /// nearest length wins, so <c>k1O</c> suggests <c>k10</c> rather than <c>k1</c>.
     /// </summary>
-    public static string DidYouMean(string name, IEnumerable<string> candidates)
+    public static string? Closest(string given, IEnumerable<string> known)
     {
-        var limit = Math.Clamp(name.Length / 3, 1, 3);
-        var best = candidates
-            .Select(c => (Candidate: c, Distance: EditDistance(c, name)))
-            .Where(c => c.Distance <= limit)
-            .OrderBy(c => c.Distance)
-            .ThenBy(c => c.Candidate, StringComparer.Ordinal)
-            .FirstOrDefault();
-        return best.Candidate is null ? "" : $" (did you mean '{best.Candidate}'?)";
+        string? best = null;
+        var bestDistance = int.MaxValue;
+        var bestLengthGap = int.MaxValue;
+        foreach (var candidate in known)
+        {
+            var distance = Distance(given.ToLowerInvariant(), candidate.ToLowerInvariant());
+            var lengthGap = Math.Abs(candidate.Length - given.Length);
+            if (distance < bestDistance || (distance == bestDistance && lengthGap < bestLengthGap))
+            {
+                best = candidate;
+                bestDistance = distance;
+                bestLengthGap = lengthGap;
+            }
+        }
+
+        var allowed = given.Length <= 4 ? 1 : given.Length <= 8 ? 2 : 3;
+        return bestDistance <= allowed ? best : null;
     }
 
-    /// <summary>Levenshtein distance, case-insensitive (a wrong case is a near miss, not a different word).</summary>
-    public static int EditDistance(string a, string b)
+    /// <summary>" Did you mean `x`?" or an empty string.</summary>
+    public static string Hint(string given, IEnumerable<string> known)
+        => Closest(given, known) is { } match ? $" Did you mean `{match}`?" : "";
+
+    /// <summary>Levenshtein distance (insertions, deletions and substitutions each cost 1).</summary>
+    public static int Distance(string a, string b)
     {
-        a = a.ToLowerInvariant();
-        b = b.ToLowerInvariant();
         var previous = new int[b.Length + 1];
         var current = new int[b.Length + 1];
         for (var j = 0; j <= b.Length; j++)
