@@ -58,7 +58,7 @@ internal sealed class DeckFunction
         Unary("cosh", Math.Cosh),
         Unary("tanh", Math.Tanh),
         Unary("atan", Math.Atan),
-        Unary("gamma", SpecialFunctions.Gamma),
+        Unary("gamma", SpecialMath.Gamma),
         Unary("erf", SpecialFunctions.Erf),
         new DeckFunction("atan2", "y, x", 2, 2, (Func<double, double, double>)Math.Atan2),
         new DeckFunction("pow", "base, exponent", 2, 2, (Func<double, double, double>)Math.Pow),
