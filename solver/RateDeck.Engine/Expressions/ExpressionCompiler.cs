@@ -1,3 +1,4 @@
+using System.Collections.Frozen;
 using System.Linq.Expressions;
 using RateDeck.Decks;
 
@@ -33,7 +34,7 @@ public static class ExpressionCompiler
         var (tree, used) = Parser.Parse(source, variables);
         var values = Expression.Parameter(typeof(double[]), "values");
         var evaluate = Expression.Lambda<Func<double[], double>>(tree.Emit(values), values).Compile();
-        return new CompiledExpression(text, variables.ToArray(), used, evaluate);
+        return new CompiledExpression(text, Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), evaluate);
     }
 
     /// <summary>
@@ -78,11 +79,13 @@ public static class ExpressionCompiler
 public sealed class CompiledExpression
 {
     private readonly Func<double[], double> _evaluate;
+    private readonly int _variableCount;
 
     internal CompiledExpression(string text, IReadOnlyList<string> variables, IReadOnlySet<string> usedVariables, Func<double[], double> evaluate)
     {
         Text = text;
         Variables = variables;
+        _variableCount = variables.Count;
         UsedVariables = usedVariables;
         _evaluate = evaluate;
     }
@@ -107,9 +110,9 @@ public sealed class CompiledExpression
     public double Evaluate(double[] variables)
     {
         ArgumentNullException.ThrowIfNull(variables);
-        if (variables.Length != Variables.Count)
+        if (variables.Length != _variableCount)
         {
-            throw new ArgumentException($"expected {Variables.Count} variable values, got {variables.Length}", nameof(variables));
+            throw new ArgumentException($"expected {_variableCount} variable values, got {variables.Length}", nameof(variables));
         }
         return _evaluate(variables);
     }

@@ -17,9 +17,9 @@ namespace RateDeck.Expressions;
 internal sealed class Parser
 {
     /// <summary>Deepest nesting of parentheses, signs and powers accepted, well inside the thread's stack.</summary>
-    private const int MaxNesting = 256;
+    private const int _maxNesting = 256;
 
-    private const string Operand = "a number, a name or '('";
+    private const string _operand = "a number, a name or '('";
 
     private static readonly Dictionary<string, double> _constants = new(StringComparer.Ordinal)
     {
@@ -56,7 +56,7 @@ internal sealed class Parser
         parser.Advance();
         if (parser._current.Kind == TokenKind.End)
         {
-            throw source.Error(0, $"empty expression: expected {Operand}");
+            throw source.Error(0, $"empty expression: expected {_operand}");
         }
         var tree = parser.ParseSum();
         if (parser._current.Kind != TokenKind.End)
@@ -98,9 +98,9 @@ internal sealed class Parser
 
     private ExpressionNode ParseUnary()
     {
-        if (++_nesting > MaxNesting)
+        if (++_nesting > _maxNesting)
         {
-            throw _source.Error(_current.Offset, $"expression nested more than {MaxNesting} levels deep: simplify it");
+            throw _source.Error(_current.Offset, $"expression nested more than {_maxNesting} levels deep: simplify it");
         }
         ExpressionNode result;
         var sign = _current;
@@ -150,7 +150,7 @@ internal sealed class Parser
                 Advance();
                 return _current.Kind == TokenKind.OpenParen ? ParseCall(token) : ResolveName(token);
             default:
-                throw Unexpected(Operand);
+                throw Unexpected(_operand);
         }
     }
 
@@ -238,7 +238,7 @@ internal sealed class Parser
         var hint = (_previous.Kind, _current.Kind) switch
         {
             (TokenKind.Star, TokenKind.Star) => "; write '^' for a power, not '**'",
-            (_, TokenKind.Name or TokenKind.OpenParen) when expected != Operand => "; write '*' for a product",
+            (_, TokenKind.Name or TokenKind.OpenParen) when expected != _operand => "; write '*' for a product",
             _ => "",
         };
         return _source.Error(_current.Offset, $"{found}: expected {expected}{hint}");

@@ -6,10 +6,10 @@ namespace RateDeck.Expressions;
 internal static class SpecialMath
 {
     /// <summary>Gamma(x) overflows double precision beyond this (Cephes MAXGAM, 171.624376956302725).</summary>
-    private const double OverflowThreshold = 171.624376956302725;
+    private const double _overflowThreshold = 171.624376956302725;
 
     /// <summary>MathNet's Lanczos evaluation overflows from about 169.75, below the true overflow point.</summary>
-    private const double LibraryLimit = 169.0;
+    private const double _libraryLimit = 169.0;
 
     /// <summary>
     /// The gamma function: MathNet's Lanczos approximation (relative error about 1e-14 for
@@ -25,12 +25,12 @@ internal static class SpecialMath
         {
             return double.NaN;
         }
-        if (x > OverflowThreshold)
+        if (x > _overflowThreshold)
         {
             return double.PositiveInfinity;
         }
         var scale = 1.0;
-        while (x > LibraryLimit)
+        while (x > _libraryLimit)
         {
             x -= 1;
             scale *= x;
