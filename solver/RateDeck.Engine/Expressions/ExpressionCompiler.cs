@@ -28,10 +28,26 @@ public static class ExpressionCompiler
     /// </param>
     /// <exception cref="ArgumentException">A variable name is not an identifier, repeated or reserved.</exception>
     public static CompiledExpression Compile(string text, SourceSpan origin, IReadOnlyList<string> variables)
+        => Compile(text, origin, variables, FrozenDictionary<string, double>.Empty);
+
+    /// <summary>
+    /// Compiles <paramref name="text"/> with some names bound to fixed values: the deck
+    /// parameters during one run, say. They are folded like literals, so the parts of a kernel
+    /// that depend only on parameters (gamma(1 + s), 2*s^2) are computed once instead of once per
+    /// pair of states. A parameter does not count as a used variable. Errors as in
+    /// <see cref="Compile(string, SourceSpan, IReadOnlyList{string})"/>.
+    /// </summary>
+    /// <param name="text">The expression as written in the deck.</param>
+    /// <param name="origin">The deck position of the first character of <paramref name="text"/>.</param>
+    /// <param name="variables">The names whose values are passed to <see cref="CompiledExpression.Evaluate"/>, in order.</param>
+    /// <param name="parameters">Names with values fixed at compile time; distinct from the variables.</param>
+    /// <exception cref="ArgumentException">A name is not an identifier, repeated or reserved.</exception>
+    public static CompiledExpression Compile(
+        string text, SourceSpan origin, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
     {
-        CheckVariableNames(variables);
+        CheckNames(variables.Concat(parameters.Keys));
         var source = new ExpressionSource(text, origin);
-        var (tree, used) = Parser.Parse(source, variables);
+        var (tree, used) = Parser.Parse(source, variables, parameters);
         var values = Expression.Parameter(typeof(double[]), "values");
         var evaluate = Expression.Lambda<Func<double[], double>>(tree.Emit(values), values).Compile();
         return new CompiledExpression(text, Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), evaluate);
@@ -50,22 +66,22 @@ public static class ExpressionCompiler
             && (char.IsAsciiLetter(name[0]) || name[0] == '_')
             && name.All(c => char.IsAsciiLetterOrDigit(c) || c == '_');
 
-    private static void CheckVariableNames(IReadOnlyList<string> variables)
+    private static void CheckNames(IEnumerable<string> names)
     {
         var seen = new HashSet<string>(StringComparer.Ordinal);
-        foreach (var name in variables)
+        foreach (var name in names)
         {
             if (!IsIdentifier(name))
             {
-                throw new ArgumentException($"variable name '{name}' is not an identifier", nameof(variables));
+                throw new ArgumentException($"variable name '{name}' is not an identifier", "names");
             }
             if (IsReservedName(name))
             {
-                throw new ArgumentException($"variable name '{name}' is reserved for a function or constant", nameof(variables));
+                throw new ArgumentException($"variable name '{name}' is reserved for a function or constant", "names");
             }
             if (!seen.Add(name))
             {
-                throw new ArgumentException($"variable name '{name}' is given twice", nameof(variables));
+                throw new ArgumentException($"variable name '{name}' is given twice", "names");
             }
         }
     }

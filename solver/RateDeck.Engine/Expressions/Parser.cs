@@ -30,14 +30,16 @@ internal sealed class Parser
     private readonly ExpressionSource _source;
     private readonly Lexer _lexer;
     private readonly Dictionary<string, int> _variables;
+    private readonly IReadOnlyDictionary<string, double> _parameters;
     private readonly HashSet<string> _used = new(StringComparer.Ordinal);
     private Token _previous;
     private Token _current;
     private int _nesting;
 
-    private Parser(ExpressionSource source, IReadOnlyList<string> variables)
+    private Parser(ExpressionSource source, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
     {
         _source = source;
+        _parameters = parameters;
         _lexer = new Lexer(source);
         _variables = new Dictionary<string, int>(StringComparer.Ordinal);
         for (var k = 0; k < variables.Count; k++)
@@ -49,10 +51,14 @@ internal sealed class Parser
     /// <summary>The names reserved for constants.</summary>
     public static IEnumerable<string> ConstantNames => _constants.Keys;
 
-    /// <summary>Parses the whole text; returns the folded tree and the variables it reads.</summary>
-    public static (ExpressionNode Tree, IReadOnlySet<string> UsedVariables) Parse(ExpressionSource source, IReadOnlyList<string> variables)
+    /// <summary>
+    /// Parses the whole text; returns the folded tree and the variables it reads. Parameters are
+    /// names with fixed values, folded like literals.
+    /// </summary>
+    public static (ExpressionNode Tree, IReadOnlySet<string> UsedVariables) Parse(
+        ExpressionSource source, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
     {
-        var parser = new Parser(source, variables);
+        var parser = new Parser(source, variables, parameters);
         parser.Advance();
         if (parser._current.Kind == TokenKind.End)
         {
@@ -194,7 +200,7 @@ internal sealed class Parser
             _used.Add(name.Text);
             return new VariableNode(name.Text, index, name.Offset);
         }
-        if (_constants.TryGetValue(name.Text, out var value))
+        if (_parameters.TryGetValue(name.Text, out var value) || _constants.TryGetValue(name.Text, out value))
         {
             return new NumberNode(value, name.Offset);
         }
@@ -202,7 +208,7 @@ internal sealed class Parser
         {
             throw _source.Error(name.Offset, $"'{name.Text}' is a function: call it as {name.Text}(...)");
         }
-        var suggestion = NameSuggester.Suggest(name.Text, _variables.Keys.Concat(_constants.Keys));
+        var suggestion = NameSuggester.Suggest(name.Text, VariableNames.Concat(_constants.Keys));
         var problem = suggestion is not null
             ? $"unknown name '{name.Text}': did you mean '{suggestion}'?"
             : $"unknown name '{name.Text}': not a variable here ({DescribeVariables()}), a constant (pi, e) or a function";
@@ -211,9 +217,9 @@ internal sealed class Parser
 
     private string DescribeUnknownFunction(string name)
     {
-        if (_variables.ContainsKey(name) || _constants.ContainsKey(name))
+        if (VariableNames.Contains(name, StringComparer.Ordinal) || _constants.ContainsKey(name))
         {
-            return $"'{name}' is a {(_variables.ContainsKey(name) ? "variable" : "constant")}, not a function: write '*' for a product";
+            return $"'{name}' is a {(_constants.ContainsKey(name) ? "constant" : "variable")}, not a function: write '*' for a product";
         }
         var suggestion = NameSuggester.Suggest(name, DeckFunction.All.Keys);
         return suggestion is not null
@@ -221,7 +227,10 @@ internal sealed class Parser
             : $"unknown function '{name}': the functions are {string.Join(", ", DeckFunction.All.Keys)}";
     }
 
-    private string DescribeVariables() => _variables.Count == 0 ? "there are none" : string.Join(", ", _variables.Keys);
+    /// <summary>The variables and parameters: to the deck's author they are all names with values.</summary>
+    private IEnumerable<string> VariableNames => _variables.Keys.Concat(_parameters.Keys);
+
+    private string DescribeVariables() => VariableNames.Any() ? string.Join(", ", VariableNames) : "there are none";
 
     /// <summary>An error at a token left over after a complete expression.</summary>
     private DeckException Leftover() => _current.Kind switch
