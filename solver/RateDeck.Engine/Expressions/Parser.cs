@@ -1,0 +1,255 @@
+using RateDeck.Decks;
+
+namespace RateDeck.Expressions;
+
+/// <summary>
+/// Recursive-descent parser of the expression language, loosest binding first:
+/// <code>
+/// sum     = product { ("+" | "-") product }
+/// product = unary { ("*" | "/") unary }
+/// unary   = ("-" | "+") unary | power
+/// power   = primary [ "^" unary ]          (right associative: 2^3^2 = 2^9)
+/// primary = number | name | name "(" [ sum { "," sum } ] ")" | "(" sum ")"
+/// </code>
+/// so that -2^2 = -(2^2) and 2^-1 = 0.5, as in ordinary mathematical notation.
+/// Constant subtrees are folded as they are built (see <see cref="ExpressionNode"/>).
+/// </summary>
+internal sealed class Parser
+{
+    /// <summary>Deepest nesting of parentheses, signs and powers accepted, well inside the thread's stack.</summary>
+    private const int _maxNesting = 256;
+
+    private const string _operand = "a number, a name or '('";
+
+    private static readonly Dictionary<string, double> _constants = new(StringComparer.Ordinal)
+    {
+        ["pi"] = Math.PI,
+        ["e"] = Math.E,
+    };
+
+    private readonly ExpressionSource _source;
+    private readonly Lexer _lexer;
+    private readonly Dictionary<string, int> _variables;
+    private readonly IReadOnlyDictionary<string, double> _parameters;
+    private readonly HashSet<string> _used = new(StringComparer.Ordinal);
+    private Token _previous;
+    private Token _current;
+    private int _nesting;
+
+    private Parser(ExpressionSource source, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
+    {
+        _source = source;
+        _parameters = parameters;
+        _lexer = new Lexer(source);
+        _variables = new Dictionary<string, int>(StringComparer.Ordinal);
+        for (var k = 0; k < variables.Count; k++)
+        {
+            _variables.Add(variables[k], k);
+        }
+    }
+
+    /// <summary>The names reserved for constants.</summary>
+    public static IEnumerable<string> ConstantNames => _constants.Keys;
+
+    /// <summary>
+    /// Parses the whole text; returns the folded tree and the variables it reads. Parameters are
+    /// names with fixed values, folded like literals.
+    /// </summary>
+    public static (ExpressionNode Tree, IReadOnlySet<string> UsedVariables) Parse(
+        ExpressionSource source, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
+    {
+        var parser = new Parser(source, variables, parameters);
+        parser.Advance();
+        if (parser._current.Kind == TokenKind.End)
+        {
+            throw source.Error(0, $"empty expression: expected {_operand}");
+        }
+        var tree = parser.ParseSum();
+        if (parser._current.Kind != TokenKind.End)
+        {
+            throw parser.Leftover();
+        }
+        return (tree, parser._used);
+    }
+
+    private void Advance()
+    {
+        _previous = _current;
+        _current = _lexer.Next();
+    }
+
+    private ExpressionNode ParseSum()
+    {
+        var left = ParseProduct();
+        while (_current.Kind is TokenKind.Plus or TokenKind.Minus)
+        {
+            var op = _current.Kind == TokenKind.Plus ? BinaryOperator.Add : BinaryOperator.Subtract;
+            Advance();
+            left = BinaryNode.Make(op, left, ParseProduct());
+        }
+        return left;
+    }
+
+    private ExpressionNode ParseProduct()
+    {
+        var left = ParseUnary();
+        while (_current.Kind is TokenKind.Star or TokenKind.Slash)
+        {
+            var op = _current.Kind == TokenKind.Star ? BinaryOperator.Multiply : BinaryOperator.Divide;
+            Advance();
+            left = BinaryNode.Make(op, left, ParseUnary());
+        }
+        return left;
+    }
+
+    private ExpressionNode ParseUnary()
+    {
+        if (++_nesting > _maxNesting)
+        {
+            throw _source.Error(_current.Offset, $"expression nested more than {_maxNesting} levels deep: simplify it");
+        }
+        ExpressionNode result;
+        var sign = _current;
+        if (sign.Kind is TokenKind.Minus or TokenKind.Plus)
+        {
+            Advance();
+            var operand = ParseUnary();
+            result = sign.Kind == TokenKind.Minus ? NegateNode.Make(operand, sign.Offset) : operand;
+        }
+        else
+        {
+            result = ParsePower();
+        }
+        _nesting--;
+        return result;
+    }
+
+    private ExpressionNode ParsePower()
+    {
+        var basis = ParsePrimary();
+        if (_current.Kind != TokenKind.Caret)
+        {
+            return basis;
+        }
+        Advance();
+        return BinaryNode.Make(BinaryOperator.Power, basis, ParseUnary());
+    }
+
+    private ExpressionNode ParsePrimary()
+    {
+        var token = _current;
+        switch (token.Kind)
+        {
+            case TokenKind.Number:
+                Advance();
+                return new NumberNode(token.Value, token.Offset);
+            case TokenKind.OpenParen:
+                Advance();
+                var inner = ParseSum();
+                if (_current.Kind != TokenKind.CloseParen)
+                {
+                    throw Unexpected($"an operator or ')' to close '(' at {_source.Describe(token.Offset, _current.Offset)}");
+                }
+                Advance();
+                return inner;
+            case TokenKind.Name:
+                Advance();
+                return _current.Kind == TokenKind.OpenParen ? ParseCall(token) : ResolveName(token);
+            default:
+                throw Unexpected(_operand);
+        }
+    }
+
+    private ExpressionNode ParseCall(Token name)
+    {
+        if (!DeckFunction.All.TryGetValue(name.Text, out var function))
+        {
+            throw _source.Error(name.Offset, DescribeUnknownFunction(name.Text));
+        }
+        var open = _current;
+        Advance();
+        var arguments = new List<ExpressionNode>();
+        if (_current.Kind != TokenKind.CloseParen)
+        {
+            while (true)
+            {
+                arguments.Add(ParseSum());
+                if (_current.Kind == TokenKind.CloseParen)
+                {
+                    break;
+                }
+                if (_current.Kind != TokenKind.Comma)
+                {
+                    throw Unexpected($"an operator, ',' or ')' to close the arguments of '{name.Text}' opened at {_source.Describe(open.Offset, _current.Offset)}");
+                }
+                Advance();
+            }
+        }
+        Advance();
+        if (arguments.Count < function.MinArguments || arguments.Count > function.MaxArguments)
+        {
+            throw _source.Error(name.Offset, $"'{name.Text}' {function.DescribeArity()}, got {arguments.Count}");
+        }
+        return CallNode.Make(function, arguments, name.Offset);
+    }
+
+    private ExpressionNode ResolveName(Token name)
+    {
+        if (_variables.TryGetValue(name.Text, out var index))
+        {
+            _used.Add(name.Text);
+            return new VariableNode(name.Text, index, name.Offset);
+        }
+        if (_parameters.TryGetValue(name.Text, out var value) || _constants.TryGetValue(name.Text, out value))
+        {
+            return new NumberNode(value, name.Offset);
+        }
+        if (DeckFunction.All.ContainsKey(name.Text))
+        {
+            throw _source.Error(name.Offset, $"'{name.Text}' is a function: call it as {name.Text}(...)");
+        }
+        var suggestion = NameSuggester.Suggest(name.Text, VariableNames.Concat(_constants.Keys));
+        var problem = suggestion is not null
+            ? $"unknown name '{name.Text}': did you mean '{suggestion}'?"
+            : $"unknown name '{name.Text}': not a variable here ({DescribeVariables()}), a constant (pi, e) or a function";
+        throw _source.Error(name.Offset, problem);
+    }
+
+    private string DescribeUnknownFunction(string name)
+    {
+        if (VariableNames.Contains(name, StringComparer.Ordinal) || _constants.ContainsKey(name))
+        {
+            return $"'{name}' is a {(_constants.ContainsKey(name) ? "constant" : "variable")}, not a function: write '*' for a product";
+        }
+        var suggestion = NameSuggester.Suggest(name, DeckFunction.All.Keys);
+        return suggestion is not null
+            ? $"unknown function '{name}': did you mean '{suggestion}'?"
+            : $"unknown function '{name}': the functions are {string.Join(", ", DeckFunction.All.Keys)}";
+    }
+
+    /// <summary>The variables and parameters: to the deck's author they are all names with values.</summary>
+    private IEnumerable<string> VariableNames => _variables.Keys.Concat(_parameters.Keys);
+
+    private string DescribeVariables() => VariableNames.Any() ? string.Join(", ", VariableNames) : "there are none";
+
+    /// <summary>An error at a token left over after a complete expression.</summary>
+    private DeckException Leftover() => _current.Kind switch
+    {
+        TokenKind.CloseParen => _source.Error(_current.Offset, "unexpected ')': there is no '(' to close"),
+        TokenKind.Comma => _source.Error(_current.Offset, "unexpected ',' outside the arguments of a function call"),
+        _ => Unexpected("an operator (+ - * / ^) or the end of the expression"),
+    };
+
+    /// <summary>An error at the current token, which is not what the grammar allows here.</summary>
+    private DeckException Unexpected(string expected)
+    {
+        var found = _current.Kind == TokenKind.End ? "unexpected end of expression" : $"unexpected {_current.Describe()}";
+        var hint = (_previous.Kind, _current.Kind) switch
+        {
+            (TokenKind.Star, TokenKind.Star) => "; write '^' for a power, not '**'",
+            (_, TokenKind.Name or TokenKind.OpenParen) when expected != _operand => "; write '*' for a product",
+            _ => "",
+        };
+        return _source.Error(_current.Offset, $"{found}: expected {expected}{hint}");
+    }
+}

@@ -1,0 +1,73 @@
+using System.Diagnostics;
+using RateDeck.Decks;
+using RateDeck.Expressions;
+
+namespace RateDeck.Bench;
+
+/// <summary>
+/// Fills an N x N kernel from a compiled deck expression the way the state-space stage does:
+/// one values array reused, one <see cref="CompiledExpression.Evaluate"/> per pair.
+/// Target (model-deck issue): 4 million evaluations well under half a second, loop included.
+/// </summary>
+internal static class ExpressionBenchmark
+{
+    private static readonly string[] _variables = ["x", "y", "i", "j", "kT", "a", "s"];
+
+    public static void Run(int n)
+    {
+        Console.WriteLine($"expression kernels, N = {n} ({(long)n * n:N0} evaluations each)");
+        Measure("gaussian", "a*exp(-(x-y)^2/(2*s^2))/sqrt(2*pi*s^2)", n);
+        Measure("power law", "a*(y/x)^(-5/3)*exp(-abs(x-y)/kT)", n);
+        Measure("special", "a*erf(abs(x-y)/s)*gamma(1+s)/max(x, y, 1)", n);
+        // The same kernels with a and s bound as fixed parameters: their parts fold away.
+        var parameters = new Dictionary<string, double> { ["a"] = 2.0, ["s"] = 0.3 };
+        Measure("gaussian, bound", "a*exp(-(x-y)^2/(2*s^2))/sqrt(2*pi*s^2)", n, parameters);
+        Measure("special, bound", "a*erf(abs(x-y)/s)*gamma(1+s)/max(x, y, 1)", n, parameters);
+    }
+
+    private static void Measure(string label, string text, int n, IReadOnlyDictionary<string, double>? parameters = null)
+    {
+        var origin = new SourceSpan("bench", 1, 1);
+        var kernel = parameters is null
+            ? ExpressionCompiler.Compile(text, origin, _variables)
+            : ExpressionCompiler.Compile(text, origin, _variables.Where(v => !parameters.ContainsKey(v)).ToArray(), parameters);
+        var output = new double[n * n];
+        Fill(kernel, output, n);
+        // Processor time beside wall time: on a shared machine the wall clock also counts the
+        // time other processes held the cores.
+        var process = Process.GetCurrentProcess();
+        var cpuBefore = process.TotalProcessorTime;
+        var clock = Stopwatch.StartNew();
+        Fill(kernel, output, n);
+        clock.Stop();
+        process.Refresh();
+        var cpu = process.TotalProcessorTime - cpuBefore;
+        var checksum = output.Sum();
+        Console.WriteLine(
+            $"  {label,-16} wall {clock.Elapsed.TotalMilliseconds,7:F1} ms, cpu {cpu.TotalMilliseconds,7:F1} ms" +
+            $" ({cpu.TotalNanoseconds / output.Length:F1} ns each; checksum {checksum:G6})");
+    }
+
+    private static void Fill(CompiledExpression kernel, double[] output, int n)
+    {
+        // x, y, i, j, kT come first; a and s follow when they are variables.
+        var values = new double[kernel.Variables.Count];
+        values[4] = 0.7;
+        if (values.Length > 5)
+        {
+            values[5] = 2.0;
+            values[6] = 0.3;
+        }
+        for (var i = 0; i < n; i++)
+        {
+            values[0] = 1.0 + i * 0.01;
+            values[2] = i + 1;
+            for (var j = 0; j < n; j++)
+            {
+                values[1] = 1.0 + j * 0.01;
+                values[3] = j + 1;
+                output[i * n + j] = kernel.Evaluate(values);
+            }
+        }
+    }
+}
