@@ -1,7 +1,7 @@
-using RateDeck.Text;
 using System.Security.Cryptography;
 using System.Text;
 using System.Text.RegularExpressions;
+using RateDeck.Text;
 
 namespace RateDeck.Decks;
 

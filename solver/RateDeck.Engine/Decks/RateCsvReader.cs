@@ -1,7 +1,7 @@
-using RateDeck.Text;
 using System.Globalization;
 using System.Text;
 using CsvHelper;
+using RateDeck.Text;
 
 namespace RateDeck.Decks;
 

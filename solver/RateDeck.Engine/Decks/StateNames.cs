@@ -1,5 +1,5 @@
-using RateDeck.Text;
 using System.Globalization;
+using RateDeck.Text;
 
 namespace RateDeck.Decks;
 

@@ -1,4 +1,5 @@
 using RateDeck.Decks;
+using RateDeck.Text;
 
 namespace RateDeck.Expressions;
 
@@ -208,7 +209,7 @@ internal sealed class Parser
         {
             throw _source.Error(name.Offset, $"'{name.Text}' is a function: call it as {name.Text}(...)");
         }
-        var suggestion = NameSuggester.Suggest(name.Text, VariableNames.Concat(_constants.Keys));
+        var suggestion = Suggestions.Closest(name.Text, VariableNames.Concat(_constants.Keys));
         var problem = suggestion is not null
             ? $"unknown name '{name.Text}': did you mean '{suggestion}'?"
             : $"unknown name '{name.Text}': not a variable here ({DescribeVariables()}), a constant (pi, e) or a function";
@@ -221,7 +222,7 @@ internal sealed class Parser
         {
             return $"'{name}' is a {(_constants.ContainsKey(name) ? "constant" : "variable")}, not a function: write '*' for a product";
         }
-        var suggestion = NameSuggester.Suggest(name, DeckFunction.All.Keys);
+        var suggestion = Suggestions.Closest(name, DeckFunction.All.Keys);
         return suggestion is not null
             ? $"unknown function '{name}': did you mean '{suggestion}'?"
             : $"unknown function '{name}': the functions are {string.Join(", ", DeckFunction.All.Keys)}";

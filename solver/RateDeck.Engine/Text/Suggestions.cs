@@ -4,17 +4,26 @@ namespace RateDeck.Text;
 public static class Suggestions
 {
     /// <summary>
-    /// The known name closest to <paramref name="given"/>, ignoring case, when it is close enough to
-    /// be a likely typo: an edit distance of at most 1 for names up to 4 characters, 2 up to 8, and
-    /// 3 beyond (common practice for spelling hints). Among equally distant names the one of the
-    /// nearest length wins, so <c>k1O</c> suggests <c>k10</c> rather than <c>k1</c>.
+    /// The known name closest to <paramref name="given"/>, when it is close enough to be a likely
+    /// typo: a name equal but for case wins outright; otherwise the edit distance may be at most 1
+    /// for names of two to four characters, 2 up to eight and 3 beyond (common practice for
+    /// spelling hints). A one-letter name gets only the case match: every other one-letter name is
+    /// one edit away, which says nothing. Among equally distant names the one of the nearest
+    /// length wins, so <c>k1O</c> suggests <c>k10</c> rather than <c>k1</c>.
     /// </summary>
     public static string? Closest(string given, IEnumerable<string> known)
     {
+        var candidates = known.ToList();
+        var sameLetters = candidates.FirstOrDefault(c => string.Equals(c, given, StringComparison.OrdinalIgnoreCase));
+        if (sameLetters is not null)
+        {
+            return sameLetters;
+        }
+
         string? best = null;
         var bestDistance = int.MaxValue;
         var bestLengthGap = int.MaxValue;
-        foreach (var candidate in known)
+        foreach (var candidate in candidates)
         {
             var distance = Distance(given.ToLowerInvariant(), candidate.ToLowerInvariant());
             var lengthGap = Math.Abs(candidate.Length - given.Length);
@@ -26,7 +35,13 @@ public static class Suggestions
             }
         }
 
-        var allowed = given.Length <= 4 ? 1 : given.Length <= 8 ? 2 : 3;
+        var allowed = given.Length switch
+        {
+            1 => 0,
+            <= 4 => 1,
+            <= 8 => 2,
+            _ => 3,
+        };
         return bestDistance <= allowed ? best : null;
     }
 
@@ -34,28 +49,36 @@ public static class Suggestions
     public static string Hint(string given, IEnumerable<string> known)
         => Closest(given, known) is { } match ? $" Did you mean `{match}`?" : "";
 
-    /// <summary>Levenshtein distance (insertions, deletions and substitutions each cost 1).</summary>
+    /// <summary>
+    /// Optimal-string-alignment distance: insertions, deletions, substitutions and swaps of
+    /// neighbours each cost 1 (a swapped pair of letters is the commonest typo).
+    /// </summary>
     public static int Distance(string a, string b)
     {
-        var previous = new int[b.Length + 1];
-        var current = new int[b.Length + 1];
+        var d = new int[a.Length + 1, b.Length + 1];
+        for (var i = 0; i <= a.Length; i++)
+        {
+            d[i, 0] = i;
+        }
+
         for (var j = 0; j <= b.Length; j++)
         {
-            previous[j] = j;
+            d[0, j] = j;
         }
 
         for (var i = 1; i <= a.Length; i++)
         {
-            current[0] = i;
             for (var j = 1; j <= b.Length; j++)
             {
-                var substitution = previous[j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1);
-                current[j] = Math.Min(substitution, Math.Min(previous[j], current[j - 1]) + 1);
+                var cost = a[i - 1] == b[j - 1] ? 0 : 1;
+                d[i, j] = Math.Min(Math.Min(d[i - 1, j] + 1, d[i, j - 1] + 1), d[i - 1, j - 1] + cost);
+                if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1])
+                {
+                    d[i, j] = Math.Min(d[i, j], d[i - 2, j - 2] + 1);
+                }
             }
-
-            (previous, current) = (current, previous);
         }
 
-        return previous[b.Length];
+        return d[a.Length, b.Length];
     }
 }
