@@ -23,10 +23,10 @@ namespace RateDeck.Rates;
 /// </remarks>
 public static class RateMatrixAssembler
 {
-    private const double SmallestNormal = 2.2250738585072014e-308;
+    private const double _smallestNormal = 2.2250738585072014e-308;
 
     /// <summary>The built-in variables of a kernel expression, in evaluation order.</summary>
-    private static readonly string[] KernelVariables = ["x", "y", "i", "j", "kT"];
+    private static readonly string[] _kernelVariables = ["x", "y", "i", "j", "kT"];
 
     /// <summary>
     /// Assembles the generator of <paramref name="deck"/> on <paramref name="states"/> (built from
@@ -110,7 +110,7 @@ public static class RateMatrixAssembler
             throw new DeckException(kernel.Span, $"the band is {kernel.Band}; it must be 1 (nearest neighbours) or more");
         }
 
-        var scope = ExpressionScope.Create(deck, KernelVariables);
+        var scope = ExpressionScope.Create(deck, _kernelVariables);
         var compiled = scope.Compile(kernel.Text, kernel.Span);
         var values = scope.NewValues();
         values[4] = states.KT;
@@ -199,7 +199,7 @@ public static class RateMatrixAssembler
             return false;
         }
 
-        generator[pair.From, pair.To] = reverse >= SmallestNormal ? reverse : 0.0;
+        generator[pair.From, pair.To] = reverse >= _smallestNormal ? reverse : 0.0;
         return true;
     }
 

@@ -8,7 +8,7 @@ namespace RateDeck.Tests.States;
 public class StateSpaceBuilderTests
 {
     // k_B / (h c) = 0.695 034 800 cm^-1 K^-1 (CODATA 2018; value from memory).
-    private const double BoltzmannInWavenumbersPerKelvin = 0.695034800;
+    private const double _boltzmannInWavenumbersPerKelvin = 0.695034800;
 
     // Area of the unit sphere in d dimensions, S_{d-1} = 2 pi^(d/2) / Gamma(d/2): 2, 2 pi, 4 pi, 2 pi^2
     // for d = 1..4 (textbook; e.g. NIST DLMF section 5.19(iii), cited from memory).
@@ -51,7 +51,7 @@ public class StateSpaceBuilderTests
     {
         double[] energies = [0.0, 82259.1, 97492.3, 102823.9];
         double[] g = [2, 8, 18, 32];
-        AssertBoltzmannPopulations(energies, g, 10000.0 * BoltzmannInWavenumbersPerKelvin);
+        AssertBoltzmannPopulations(energies, g, 10000.0 * _boltzmannInWavenumbersPerKelvin);
     }
 
     // Sodium 3s 2S1/2, 3p 2P1/2, 3p 2P3/2 (g = 2J + 1 = 2, 2, 4) at 16956.2 and 16973.4 cm^-1, the D lines,
@@ -59,7 +59,7 @@ public class StateSpaceBuilderTests
     [Fact]
     public void SodiumResonanceLevels_At2500K_MatchBoltzmannClosedForm()
     {
-        AssertBoltzmannPopulations([0.0, 16956.2, 16973.4], [2, 2, 4], 2500.0 * BoltzmannInWavenumbersPerKelvin);
+        AssertBoltzmannPopulations([0.0, 16956.2, 16973.4], [2, 2, 4], 2500.0 * _boltzmannInWavenumbersPerKelvin);
     }
 
     // Energies 0..1400 kT: Boltzmann factors down to e^-1400 ~ 1e-608, beyond double range.
@@ -147,8 +147,8 @@ public class StateSpaceBuilderTests
     [Fact]
     public void MechanicsWeights_WithoutTheMechanicsStage_AreRefusedAtTheirSpan()
     {
-        var deck = TestDecks.Create(Coordinates(2), [1, 2], new MechanicsWeights(TestDecks.At(4)), TestDecks.NoCoupling)
-            with { Mechanics = new MechanicsSpec("v^2/2 - q^2/2", 1.0, TestDecks.At(11)) };
+        var withoutLagrangian = TestDecks.Create(Coordinates(2), [1, 2], new MechanicsWeights(TestDecks.At(4)), TestDecks.NoCoupling);
+        var deck = withoutLagrangian with { Mechanics = new MechanicsSpec("v^2/2 - q^2/2", 1.0, TestDecks.At(11)) };
         var error = Assert.Throws<DeckException>(() => StateSpaceBuilder.Build(deck));
         Assert.Equal(TestDecks.At(4), error.Span);
         Assert.Contains("mechanics stage", error.Problem, StringComparison.Ordinal);
@@ -165,8 +165,9 @@ public class StateSpaceBuilderTests
     [Fact]
     public void ParameterNamedLikeAStateVariable_IsRejectedAtTheParameter()
     {
-        var deck = TestDecks.Create(Coordinates(2), [0, 1], TestDecks.Weights(1, 1), TestDecks.NoCoupling, parameters: new DeckParameter("x", 2.0, TestDecks.At(12)))
-            with { Energies = new PerStateExpression("x", TestDecks.At(3, 12)) };
+        var shadowing = new DeckParameter("x", 2.0, TestDecks.At(12));
+        var givenEnergies = TestDecks.Create(Coordinates(2), [0, 1], TestDecks.Weights(1, 1), TestDecks.NoCoupling, parameters: shadowing);
+        var deck = givenEnergies with { Energies = new PerStateExpression("x", TestDecks.At(3, 12)) };
         var error = Assert.Throws<DeckException>(() => StateSpaceBuilder.Build(deck));
         Assert.Equal(TestDecks.At(12), error.Span);
     }
