@@ -64,7 +64,7 @@ public static class RateMatrixAssembler
 
     private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, DenseMatrix generator)
     {
-        var seen = new HashSet<(int From, int To)>();
+        var seen = new bool[states.Count * states.Count];
         foreach (var entry in oneWay.Entries)
         {
             CheckEntry(entry, states, seen);
@@ -88,7 +88,7 @@ public static class RateMatrixAssembler
 
     private static BalanceOrigin PlaceFull(MeasuredFull full, StateSpace states, DenseMatrix generator)
     {
-        var seen = new HashSet<(int From, int To)>();
+        var seen = new bool[states.Count * states.Count];
         foreach (var entry in full.Entries)
         {
             CheckEntry(entry, states, seen);
@@ -156,7 +156,8 @@ public static class RateMatrixAssembler
         return BalanceOrigin.CompletedByDetailedBalance;
     }
 
-    private static void CheckEntry(RateEntry entry, StateSpace states, HashSet<(int From, int To)> seen)
+    /// <summary>Validates one measured entry; <paramref name="seen"/> marks pairs already given (n x n, by from * n + to).</summary>
+    private static void CheckEntry(RateEntry entry, StateSpace states, bool[] seen)
     {
         var n = states.Count;
         if (entry.From < 0 || entry.From >= n || entry.To < 0 || entry.To >= n)
@@ -175,10 +176,13 @@ public static class RateMatrixAssembler
             throw new DeckException(entry.Span, string.Create(CultureInfo.InvariantCulture, $"the rate from {pair.Describe()} is {entry.Rate}; a rate must be finite and zero or more"));
         }
 
-        if (!seen.Add((entry.From, entry.To)))
+        ref var given = ref seen[entry.From * n + entry.To];
+        if (given)
         {
             throw new DeckException(entry.Span, $"the rate from {pair.Describe()} is given twice; keep one");
         }
+
+        given = true;
     }
 
     /// <summary>

@@ -83,6 +83,18 @@ public class RateMatrixAssemblerTests
         Assert.All(SymmetrizedGenerator.Build(rates).Values, v => Assert.True(double.IsFinite(v)));
     }
 
+    // e^-740 ~ 4e-322 is a subnormal double with about two significant digits: flushed to zero.
+    [Fact]
+    public void CompletedRateInSubnormalRange_IsFlushedToZero()
+    {
+        var deck = TestDecks.Create([0.0, 1.0], [0, 740], TestDecks.Weights(1, 1), TestDecks.OneWay(TransferDirection.TowardSmaller, (1, 0, 1.0)));
+        Assert.True(double.IsSubnormal(Math.Exp(-740)));
+        var rates = Assemble(deck);
+        Assert.Equal(0.0, rates.Generator[1, 0]);
+        Assert.Equal(-1.0, rates.Generator[1, 1]);
+        Assert.Equal(0.0, rates.Generator[0, 0]);
+    }
+
     [Fact]
     public void UphillRateWhoseCompletionOverflows_IsRejectedAtTheEntry()
     {
