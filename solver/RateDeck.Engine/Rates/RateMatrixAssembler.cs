@@ -1,0 +1,271 @@
+using System.Globalization;
+using MathNet.Numerics.LinearAlgebra.Double;
+using RateDeck.Decks;
+using RateDeck.States;
+
+namespace RateDeck.Rates;
+
+/// <summary>
+/// Deck + <see cref="StateSpace"/> -> <see cref="RateMatrix"/> (SPEC 2). Off-diagonal rates come
+/// from the deck's coupling: measured one way and completed by detailed balance, measured in full
+/// and taken as given, or a model kernel evaluated for every pair in the declared direction and
+/// completed. The diagonal is K_jj = -sum_{i != j} K_ij - loss_j.
+/// </summary>
+/// <remarks>
+/// Tolerances. A completed rate K_ji = exp(ln K_ij + ln pi_j - ln pi_i) carries a relative error of
+/// about |ln K_ji| x 1.1e-16 (below 1e-13 for any normal double), so K_ij pi_j = K_ji pi_i holds to
+/// better than 1e-12 relative for every pair with both rates non-zero. A completed rate below the
+/// smallest normal double (2.2e-308) is set to exactly zero: as a subnormal it would keep too few
+/// digits to satisfy detailed balance at that tolerance, and zero is what the symmetrised
+/// generator expects of an underflowed partner. Each diagonal is one rounding of a compensated
+/// (Neumaier) sum, so each column sums to minus its loss within a few units in the last place of
+/// the diagonal. Rate entries name states by zero-based grid index.
+/// </remarks>
+public static class RateMatrixAssembler
+{
+    private const double _smallestNormal = 2.2250738585072014e-308;
+
+    /// <summary>The built-in variables of a kernel expression, in evaluation order.</summary>
+    private static readonly string[] _kernelVariables = ["x", "y", "i", "j", "kT"];
+
+    /// <summary>
+    /// Assembles the generator of <paramref name="deck"/> on <paramref name="states"/> (built from
+    /// the same deck). Throws <see cref="DeckException"/> at the offending entry or kernel for a
+    /// negative or non-finite rate, a rate against the declared direction, a repeated pair, or a
+    /// completed rate that would overflow a double.
+    /// </summary>
+    public static RateMatrix Assemble(Deck deck, StateSpace states)
+    {
+        if (states.Count != deck.Grid.Count)
+        {
+            throw new ArgumentException($"the state space has {states.Count} states but the deck's grid has {deck.Grid.Count}", nameof(states));
+        }
+
+        var n = states.Count;
+        var generator = DenseMatrix.Create(n, n, 0.0);
+        var origin = deck.Coupling switch
+        {
+            MeasuredOneWay oneWay => PlaceOneWay(oneWay, states, generator),
+            MeasuredFull full => PlaceFull(full, states, generator),
+            KernelModel kernel => PlaceKernel(kernel, deck, states, generator),
+            _ => throw new NotSupportedException($"unknown coupling {deck.Coupling.GetType().Name}"),
+        };
+
+        var loss = deck.Losses is null
+            ? new double[n]
+            : PerStateEvaluator.Evaluate(deck, deck.Losses, "loss rate", PerStateRequirement.NonNegative);
+        var pumping = deck.Pumping is null
+            ? new double[n]
+            : PerStateEvaluator.Evaluate(deck, deck.Pumping, "pumping rate", PerStateRequirement.NonNegative);
+
+        FillDiagonal(generator, loss, states, deck.Coupling.Span);
+        return new RateMatrix(states, generator, loss, pumping, origin);
+    }
+
+    private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, DenseMatrix generator)
+    {
+        var seen = new bool[states.Count * states.Count];
+        foreach (var entry in oneWay.Entries)
+        {
+            CheckEntry(entry, states, seen);
+            var pair = new Pair(entry.From, entry.To, states);
+            RequireDistinctCoordinates(pair, entry.Span);
+            if (!pair.Follows(oneWay.Direction))
+            {
+                throw new DeckException(
+                    entry.Span,
+                    $"this rate goes from {pair.Describe()}, against the declared direction ({Describe(oneWay.Direction)}); give it the other way round, or give the full matrix");
+            }
+
+            if (!TryPlaceAndComplete(generator, pair, entry.Rate))
+            {
+                throw new DeckException(entry.Span, OverflowMessage("this rate", pair, entry.Rate));
+            }
+        }
+
+        return BalanceOrigin.CompletedByDetailedBalance;
+    }
+
+    private static BalanceOrigin PlaceFull(MeasuredFull full, StateSpace states, DenseMatrix generator)
+    {
+        var seen = new bool[states.Count * states.Count];
+        foreach (var entry in full.Entries)
+        {
+            CheckEntry(entry, states, seen);
+            generator[entry.To, entry.From] = entry.Rate;
+        }
+
+        return BalanceOrigin.TakenAsGiven;
+    }
+
+    /// <summary>
+    /// W(x -> y) with x, y the source and target coordinates and i, j their ONE-based state
+    /// numbers, evaluated once for every pair in the declared direction within the band.
+    /// The kernel sees x, y, i, j, kT, then the deck parameters in ordinal order of their names.
+    /// </summary>
+    private static BalanceOrigin PlaceKernel(KernelModel kernel, Deck deck, StateSpace states, DenseMatrix generator)
+    {
+        if (kernel.Band is < 1)
+        {
+            throw new DeckException(kernel.Span, $"the band is {kernel.Band}; it must be 1 (nearest neighbours) or more");
+        }
+
+        var scope = ExpressionScope.Create(deck, _kernelVariables);
+        var compiled = scope.Compile(kernel.Text, kernel.Span);
+        var values = scope.NewValues();
+        values[4] = states.KT;
+        var n = states.Count;
+        var band = kernel.Band ?? n;
+        for (var source = 0; source < n; source++)
+        {
+            var first = Math.Max(0, source - band);
+            var last = Math.Min(n - 1, source + band);
+            for (var target = first; target <= last; target++)
+            {
+                if (target == source)
+                {
+                    continue;
+                }
+
+                var pair = new Pair(source, target, states);
+                RequireDistinctCoordinates(pair, kernel.Span);
+                if (!pair.Follows(kernel.Direction))
+                {
+                    continue;
+                }
+
+                values[0] = states.Coordinates[source];
+                values[1] = states.Coordinates[target];
+                values[2] = source + 1;
+                values[3] = target + 1;
+                var rate = compiled.Evaluate(values);
+                if (!(rate >= 0 && double.IsFinite(rate)))
+                {
+                    throw new DeckException(
+                        kernel.Span,
+                        string.Create(CultureInfo.InvariantCulture, $"the kernel is {rate} from {pair.Describe()}; a rate must be finite and zero or more"));
+                }
+
+                if (!TryPlaceAndComplete(generator, pair, rate))
+                {
+                    throw new DeckException(kernel.Span, OverflowMessage($"the kernel's rate from {pair.Describe()}", pair, rate));
+                }
+            }
+        }
+
+        return BalanceOrigin.CompletedByDetailedBalance;
+    }
+
+    /// <summary>Validates one measured entry; <paramref name="seen"/> marks pairs already given (n x n, by from * n + to).</summary>
+    private static void CheckEntry(RateEntry entry, StateSpace states, bool[] seen)
+    {
+        var n = states.Count;
+        if (entry.From < 0 || entry.From >= n || entry.To < 0 || entry.To >= n)
+        {
+            throw new DeckException(entry.Span, $"this rate names states {entry.From + 1} -> {entry.To + 1}, but the grid has states 1..{n}");
+        }
+
+        var pair = new Pair(entry.From, entry.To, states);
+        if (entry.From == entry.To)
+        {
+            throw new DeckException(entry.Span, $"this rate goes from state '{states.Labels[entry.From]}' to itself; the diagonal is built from the other rates and the losses, so leave it out");
+        }
+
+        if (!(entry.Rate >= 0 && double.IsFinite(entry.Rate)))
+        {
+            throw new DeckException(entry.Span, string.Create(CultureInfo.InvariantCulture, $"the rate from {pair.Describe()} is {entry.Rate}; a rate must be finite and zero or more"));
+        }
+
+        ref var given = ref seen[entry.From * n + entry.To];
+        if (given)
+        {
+            throw new DeckException(entry.Span, $"the rate from {pair.Describe()} is given twice; keep one");
+        }
+
+        given = true;
+    }
+
+    /// <summary>
+    /// Sets K[to, from] = rate and completes K[from, to] = rate pi_from / pi_to in log space;
+    /// false (nothing completed) when the completed rate would overflow a double.
+    /// </summary>
+    private static bool TryPlaceAndComplete(DenseMatrix generator, Pair pair, double rate)
+    {
+        generator[pair.To, pair.From] = rate;
+        if (rate == 0)
+        {
+            return true;
+        }
+
+        var reverse = Math.Exp(Math.Log(rate) + pair.LogRatio);
+        if (double.IsInfinity(reverse))
+        {
+            return false;
+        }
+
+        generator[pair.From, pair.To] = reverse >= _smallestNormal ? reverse : 0.0;
+        return true;
+    }
+
+    private static string OverflowMessage(string what, Pair pair, double rate) => string.Create(
+        CultureInfo.InvariantCulture,
+        $"completing {what} by detailed balance gives the reverse rate {rate:G6} x pi_from/pi_to = {rate:G6} x e^{pair.LogRatio:G6}, about 10^{(Math.Log(rate) + pair.LogRatio) / Math.Log(10):F0}, beyond the largest double (1.8e308); give the rate of the other direction instead, or check the energies, weights and kT");
+
+    private static void RequireDistinctCoordinates(Pair pair, SourceSpan span)
+    {
+        if (pair.SameCoordinate)
+        {
+            throw new DeckException(span, $"the transfer from {pair.Describe()} joins two states of one coordinate, so its direction is undefined; give the states distinct coordinates");
+        }
+    }
+
+    private static void FillDiagonal(DenseMatrix generator, double[] loss, StateSpace states, SourceSpan couplingSpan)
+    {
+        var n = generator.RowCount;
+        var storage = generator.Values;
+        for (var column = 0; column < n; column++)
+        {
+            var sum = new NeumaierSum();
+            var offset = column * n;
+            for (var row = 0; row < n; row++)
+            {
+                if (row != column)
+                {
+                    sum.Add(storage[offset + row]);
+                }
+            }
+
+            sum.Add(loss[column]);
+            var diagonal = -sum.Value;
+            if (!double.IsFinite(diagonal))
+            {
+                throw new DeckException(couplingSpan, $"the rates out of state '{states.Labels[column]}' (state {column + 1}) add up beyond the largest double; check the rates and their units");
+            }
+
+            storage[offset + column] = diagonal;
+        }
+    }
+
+    private static string Describe(TransferDirection direction) => direction switch
+    {
+        TransferDirection.TowardSmaller => "toward smaller coordinate",
+        _ => "toward larger coordinate",
+    };
+
+    /// <summary>An ordered pair of states: transfer from <see cref="From"/> to <see cref="To"/>.</summary>
+    private readonly record struct Pair(int From, int To, StateSpace States)
+    {
+        public bool SameCoordinate => States.Coordinates[From] == States.Coordinates[To];
+
+        /// <summary>ln(pi_from / pi_to), the log factor from this rate to its detailed-balance partner.</summary>
+        public double LogRatio => States.LogEquilibrium[From] - States.LogEquilibrium[To];
+
+        public bool Follows(TransferDirection direction) => direction == TransferDirection.TowardSmaller
+            ? States.Coordinates[To] < States.Coordinates[From]
+            : States.Coordinates[To] > States.Coordinates[From];
+
+        public string Describe() => string.Create(
+            CultureInfo.InvariantCulture,
+            $"state '{States.Labels[From]}' (state {From + 1}, x = {States.Coordinates[From]}) to state '{States.Labels[To]}' (state {To + 1}, x = {States.Coordinates[To]})");
+    }
+}

@@ -1,0 +1,11 @@
+namespace RateDeck.States;
+
+/// <summary>
+/// The mechanics stage as the state-space builder sees it: from a Lagrangian L(q, v), the state
+/// energies and Planck's constant h (deck units), the semiclassical weight g(E) = T(E) / h of each
+/// state, in the order of <paramref name="energies"/>.
+/// </summary>
+/// <param name="lagrangian">L(q, v), thread-safe.</param>
+/// <param name="energies">E_i of each state, in the deck's energy unit.</param>
+/// <param name="planck">h in the deck's units.</param>
+public delegate double[] MechanicsWeightDeriver(Func<double, double, double> lagrangian, double[] energies, double planck);

@@ -1,0 +1,169 @@
+using System.Globalization;
+using MathNet.Numerics;
+using RateDeck.Decks;
+
+namespace RateDeck.States;
+
+/// <summary>
+/// Deck -> <see cref="StateSpace"/>: evaluates energies and weights and forms the normalised
+/// equilibrium ln pi_i = ln g_i - E_i / kT - ln Z (SPEC 2), entirely in log space, with ln Z by a
+/// max-shifted log-sum-exp summed with compensation. Per-state expressions see the variables
+/// documented on <see cref="PerStateEvaluator"/>.
+/// </summary>
+public static class StateSpaceBuilder
+{
+    /// <summary>
+    /// Builds the state space of <paramref name="deck"/>. Weights from mechanics are refused here
+    /// with a <see cref="DeckException"/>; use the overload that takes the mechanics stage.
+    /// </summary>
+    public static StateSpace Build(Deck deck) => Build(deck, null);
+
+    /// <summary>
+    /// Builds the state space of <paramref name="deck"/>, with <paramref name="mechanics"/> deriving
+    /// weights g(E) = T(E) / h when the deck asks for weights from its Lagrangian (null: refused).
+    /// Throws <see cref="DeckException"/> naming the state for a non-finite energy, a weight that is
+    /// not positive and finite, or a kT that is not positive and finite.
+    /// </summary>
+    public static StateSpace Build(Deck deck, MechanicsWeightDeriver? mechanics)
+    {
+        if (!double.IsFinite(deck.KT) || deck.KT <= 0)
+        {
+            throw new DeckException(deck.KTSpan, string.Create(CultureInfo.InvariantCulture, $"kT is {deck.KT}; it must be positive and finite"));
+        }
+
+        var energies = PerStateEvaluator.Evaluate(deck, deck.Energies, "energy", PerStateRequirement.Finite);
+        var logWeights = deck.Weights switch
+        {
+            GivenWeights given => PerStateEvaluator.Evaluate(deck, given.Source, "weight", PerStateRequirement.Positive).Select(w => Math.Log(w)).ToArray(),
+            IsotropicWeights isotropic => IsotropicLogWeights(deck.Grid, isotropic),
+            MechanicsWeights fromMechanics => MechanicsLogWeights(deck, fromMechanics, energies, mechanics),
+            _ => throw new NotSupportedException($"unknown weight specification {deck.Weights.GetType().Name}"),
+        };
+
+        var logEquilibrium = LogEquilibrium(deck, energies, logWeights);
+        return new StateSpace(
+            (string[])deck.Grid.Labels.Clone(),
+            (double[])deck.Grid.Coordinates.Clone(),
+            energies,
+            logWeights,
+            deck.KT,
+            logEquilibrium);
+    }
+
+    /// <summary>
+    /// ln S_{d-1} = ln 2 + (d/2) ln pi - ln Gamma(d/2), the log of the area of the unit sphere in
+    /// d dimensions (2, 2 pi, 4 pi, 2 pi^2 for d = 1..4). Finite for every d up to int.MaxValue.
+    /// </summary>
+    public static double LogUnitSphereArea(int dimension)
+    {
+        ArgumentOutOfRangeException.ThrowIfLessThan(dimension, 1);
+        return Math.Log(2) + 0.5 * dimension * Math.Log(Math.PI) - SpecialFunctions.GammaLn(0.5 * dimension);
+    }
+
+    /// <summary>ln g_i = ln S_{d-1} + (d - 1) ln x_i + ln dx_i; for d = 1 the x factor is 1 and x may be any value.</summary>
+    private static double[] IsotropicLogWeights(GridSpec grid, IsotropicWeights isotropic)
+    {
+        if (isotropic.Dimension < 1)
+        {
+            throw new DeckException(isotropic.Span, $"the dimension is {isotropic.Dimension}; it must be a whole number, 1 or more");
+        }
+
+        var logArea = LogUnitSphereArea(isotropic.Dimension);
+        var logWeights = new double[grid.Count];
+        for (var state = 0; state < grid.Count; state++)
+        {
+            var x = grid.Coordinates[state];
+            var dx = grid.CellWidths[state];
+            if (isotropic.Dimension > 1 && !(x > 0 && double.IsFinite(x)))
+            {
+                throw new DeckException(
+                    isotropic.Span,
+                    string.Create(CultureInfo.InvariantCulture, $"state '{grid.Labels[state]}' (state {state + 1}) has x = {x}; the {isotropic.Dimension}-dimensional measure needs every x positive and finite"));
+            }
+
+            if (!(dx > 0 && double.IsFinite(dx)))
+            {
+                throw new DeckException(
+                    grid.Span,
+                    string.Create(CultureInfo.InvariantCulture, $"the cell of state '{grid.Labels[state]}' (state {state + 1}) has width {dx}; neighbouring states must have distinct coordinates"));
+            }
+
+            var radial = isotropic.Dimension > 1 ? (isotropic.Dimension - 1) * Math.Log(x) : 0.0;
+            logWeights[state] = logArea + radial + Math.Log(dx);
+        }
+
+        return logWeights;
+    }
+
+    /// <summary>
+    /// Weights g(E) = T(E) / h from the deck's Lagrangian, through the mechanics stage. The
+    /// Lagrangian sees <c>q</c>, <c>v</c>, <c>kT</c>, then the parameters in ordinal order.
+    /// </summary>
+    private static double[] MechanicsLogWeights(Deck deck, MechanicsWeights request, double[] energies, MechanicsWeightDeriver? mechanics)
+    {
+        if (deck.Mechanics is not { } spec)
+        {
+            throw new DeckException(request.Span, "weights from mechanics need a Lagrangian; add one to the deck or give the weights another way");
+        }
+
+        if (mechanics is null)
+        {
+            throw new DeckException(request.Span, "weights from mechanics need the mechanics stage, which this build does not have; give the weights per state or by dimension");
+        }
+
+        var scope = ExpressionScope.Create(deck, "q", "v", "kT");
+        var compiled = scope.Compile(spec.Lagrangian, spec.Span);
+        double Lagrangian(double q, double v)
+        {
+            // A fresh buffer per call keeps the delegate safe for a stage that evaluates in parallel.
+            var values = scope.NewValues();
+            values[0] = q;
+            values[1] = v;
+            values[2] = deck.KT;
+            return compiled.Evaluate(values);
+        }
+
+        var weights = mechanics(Lagrangian, (double[])energies.Clone(), spec.Planck);
+        if (weights.Length != energies.Length)
+        {
+            throw new InvalidOperationException($"the mechanics stage returned {weights.Length} weights for {energies.Length} states");
+        }
+
+        for (var state = 0; state < weights.Length; state++)
+        {
+            if (!(weights[state] > 0 && double.IsFinite(weights[state])))
+            {
+                throw new DeckException(
+                    spec.Span,
+                    string.Create(CultureInfo.InvariantCulture, $"the weight T(E)/h of state '{deck.Grid.Labels[state]}' (state {state + 1}, E = {energies[state]}) is {weights[state]}; the Lagrangian must give a closed orbit of finite period at every state energy"));
+            }
+        }
+
+        return weights.Select(w => Math.Log(w)).ToArray();
+    }
+
+    private static double[] LogEquilibrium(Deck deck, double[] energies, double[] logWeights)
+    {
+        var logUnnormalised = new double[energies.Length];
+        for (var state = 0; state < energies.Length; state++)
+        {
+            logUnnormalised[state] = logWeights[state] - energies[state] / deck.KT;
+            if (!double.IsFinite(logUnnormalised[state]))
+            {
+                throw new DeckException(
+                    deck.Energies.Span,
+                    string.Create(CultureInfo.InvariantCulture, $"E/kT of state '{deck.Grid.Labels[state]}' (state {state + 1}) is {energies[state] / deck.KT}, beyond double range; check the energy unit and kT"));
+            }
+        }
+
+        var largest = logUnnormalised.Max();
+        var sum = new NeumaierSum();
+        foreach (var value in logUnnormalised)
+        {
+            sum.Add(Math.Exp(value - largest));
+        }
+
+        var logPartition = largest + Math.Log(sum.Value);
+        return logUnnormalised.Select(value => value - logPartition).ToArray();
+    }
+}
