@@ -134,7 +134,7 @@ public static class DetailedBalance
                 }
 
                 var violation = -double.ExpM1(-Math.Abs(flowToI - flowToJ));
-                if (violation > worst)
+                if (worstPair is null || violation > worst)
                 {
                     worst = violation;
                     worstPair = new RateEntry(labels[j], labels[i], violation);

@@ -45,7 +45,7 @@ public static class MatrixChecks
         var n = rates.Count;
         var checks = new List<CheckOutcome>
         {
-            new("finite entries", nonFinite == 0, nonFinite == 0 ? "every rate, loss and pumping entry is finite" : $"{nonFinite} entries of K, the losses or the pumping are NaN or infinite"),
+            new("finite entries", nonFinite == 0, nonFinite == 0 ? "every rate, loss and pumping entry is finite" : $"{Format.Count(nonFinite, "entry", "entries")} of K, the losses or the pumping NaN or infinite"),
         };
 
         var (conservation, worstColumn) = ConservationError(rates);
@@ -55,7 +55,7 @@ public static class MatrixChecks
         var (negativeCount, worstNegative) = NegativeOffDiagonals(rates);
         checks.Add(new("non-negative rates", negativeCount == 0, negativeCount == 0
             ? "every off-diagonal rate is >= 0"
-            : $"{negativeCount} negative off-diagonal rates; the worst is {Format.Number(worstNegative!.Value)} from {worstNegative.From} to {worstNegative.To}"));
+            : $"{Format.Count(negativeCount, "negative off-diagonal rate", "negative off-diagonal rates")}; the worst is {Format.Number(worstNegative!.Value)} from {worstNegative.From} to {worstNegative.To}"));
         checks.Add(new("detailed balance", balance.Holds, BalanceDetail(balance)));
 
         var classes = TransitionGraph.Classify(rates);
@@ -72,10 +72,10 @@ public static class MatrixChecks
         else
         {
             checks.Add(new("null space", spectrum.NullDimension == expectedNull,
-                $"{spectrum.NullDimension} zero eigenvalues (|lambda| <= {Format.Number(spectrum.ZeroTolerance)}) for {expectedNull} closed classes without loss ({classes.Closed.Count} closed classes, {classes.Transient.Length} transient states)"));
+                $"{Format.Count(spectrum.NullDimension, "zero eigenvalue", "zero eigenvalues")} (|lambda| <= {Format.Number(spectrum.ZeroTolerance)}) for {Format.Count(expectedNull, "closed class", "closed classes")} without loss ({Format.Count(classes.Closed.Count, "closed class", "closed classes")}, {Format.Count(classes.Transient.Length, "transient state", "transient states")})"));
             checks.Add(new("decaying modes", spectrum.NonDecayingCount == 0, spectrum.NonDecayingCount == 0
                 ? "every non-zero mode decays"
-                : $"{spectrum.NonDecayingCount} non-zero eigenvalues have real part >= -{Format.Number(spectrum.ZeroTolerance)}: those modes oscillate or grow"));
+                : $"{Format.Count(spectrum.NonDecayingCount, "non-zero eigenvalue has", "non-zero eigenvalues have")} real part >= -{Format.Number(spectrum.ZeroTolerance)}: those modes oscillate or grow"));
             if (spectrum.SlowestRate is { } slowest)
             {
                 equilibriumTolerance = Math.Max(EquilibriumToleranceFloor, spectrum.ZeroTolerance / slowest);
@@ -156,13 +156,13 @@ public static class MatrixChecks
         if (balance.OneWayCount > 0)
         {
             var edges = string.Join(", ", balance.OneWayEdges.Select(e => $"{e.From} -> {e.To}"));
-            parts.Add($"{balance.OneWayCount} one-way edges (rate one way, none back): {edges}{(balance.OneWayCount > balance.OneWayEdges.Count ? ", ..." : "")}");
+            parts.Add($"{Format.Count(balance.OneWayCount, "one-way edge", "one-way edges")} (rate one way, none back): {edges}{(balance.OneWayCount > balance.OneWayEdges.Count ? ", ..." : "")}");
         }
 
         if (balance.Origin == BalanceOrigin.TakenAsGiven)
         {
             parts.Add(balance.CycleViolation is { } cycle
-                ? $"worst Kolmogorov cycle violation |ln(forward/backward)| = {Format.Number(cycle)} around {Format.Labels(balance.WorstCycle)} ({balance.CycleCount} fundamental cycles; tolerance {Format.Number(DetailedBalance.CycleTolerance)})"
+                ? $"worst Kolmogorov cycle violation |ln(forward/backward)| = {Format.Number(cycle)} around {Format.Labels(balance.WorstCycle)} ({Format.Count(balance.CycleCount, "fundamental cycle", "fundamental cycles")}; tolerance {Format.Number(DetailedBalance.CycleTolerance)})"
                 : "the two-way support has no cycle");
         }
 

@@ -135,7 +135,7 @@ public sealed class Spectrum
         {
             var why = balance is null || balance.OneWayCount == 0
                 ? $"worst pair violation {Format.Number(balance?.PairViolation ?? double.NaN)} exceeds {Format.Number(DetailedBalance.PairTolerance)}"
-                : $"{balance.OneWayCount} one-way edges";
+                : Format.Count(balance.OneWayCount, "one-way edge", "one-way edges");
             var decomposition = algebra.GeneralEigen(rates.Generator);
             return new Spectrum(rates, SpectrumPath.General, $"detailed balance fails for the deck's pi ({why}): general eigen-decomposition of K", decomposition.Values, null, decomposition);
         }

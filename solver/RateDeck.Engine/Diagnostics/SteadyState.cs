@@ -127,14 +127,14 @@ public static class SteadyState
         var keptMass = lossFree.Sum(m => m.Mass);
         if (rates.IsDriven)
         {
-            var conserved = lossFree.Count == 0 ? "" : $", plus the mass of P(0) kept by {lossFree.Count} closed classes without loss";
+            var conserved = lossFree.Count == 0 ? "" : $", plus the mass of P(0) kept by {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss";
             return new SteadyStateResult(SteadyStateKind.Driven, populations, residual, approach, masses, classes.TransientLabels, absorption, null,
                 $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Number(residual)}; approach time {Format.Number(approach)}");
         }
 
         var lost = initial.Sum() - keptMass;
         return new SteadyStateResult(SteadyStateKind.Undriven, populations, residual, approach, masses, classes.TransientLabels, absorption, lost,
-            $"P(0) settles in {lossFree.Count} closed classes without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Number(residual)}; approach time {Format.Number(approach)}");
+            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Number(residual)}; approach time {Format.Number(approach)}");
     }
 
     /// <summary>B[t][c] from K_TT^T B = -R.</summary>

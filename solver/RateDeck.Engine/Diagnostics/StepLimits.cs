@@ -136,7 +136,7 @@ public static class StepLimits
         var target = horizonIsEnd ? $"t_end = {Format.Number(t)}" : $"t = 1/slowest rate = {Format.Number(t)}";
         var verdict = explicitCheaper ? "cheaper than exact propagation" : "exact propagation is cheaper";
         var ratio = stiffness is { } r ? $"stiffness ratio {Format.Number(r)}" : "no decaying mode";
-        return $"{prefix}explicit RK4 with dt <= {Format.Number(step)} needs {Format.Number(steps)} steps to {target}; {verdict} ({ratio})";
+        return $"{prefix}explicit RK4 with dt <= {Format.Number(step)} needs {Format.Count(steps)} steps to {target}; {verdict} ({ratio})";
     }
 
     /// <summary>Largest r with |R(r d)| &lt;= 1 on [0, r] for the unit direction d: a scan in steps of 1e-3 up to |z| = 4 (the region lies inside), then bisection.</summary>
