@@ -109,7 +109,7 @@ def reducible5():
     rates[0, 4], rates[2, 4] = 1.0, 3.0
     k = generator(rates)
     initial = np.array([0.1, 0.2, 0.3, 0.15, 0.25])
-    t = 200.0  # slowest decay rate is 1 (state r4 leaves at 4, the classes relax at 2 and 3)
+    t = 200.0  # slowest decay rate is 2 (r4 leaves at 4, the classes relax at 3 and 2): e^-400 is negligible
     limit = scipy.linalg.expm(k * t) @ initial
     return case("reducible5", ["r0", "r1", "r2", "r3", "r4"], k, log_normalise([0.0] * 5), "TakenAsGiven",
                 {"initial": initial.tolist(), "limit_time": t, "limit_populations": limit.tolist()})
