@@ -81,9 +81,9 @@ public static class DetailedBalance
     public const int ListedOneWayEdges = 20;
 
     /// <summary>Smallest positive normal double.</summary>
-    private const double MinNormal = 2.2250738585072014E-308;
+    private const double _minNormal = 2.2250738585072014E-308;
 
-    private static readonly double _logMinNormal = Math.Log(MinNormal);
+    private static readonly double _logMinNormal = Math.Log(_minNormal);
 
     /// <summary>Measures detailed balance of <paramref name="rates"/>: pairwise always, Kolmogorov cycles for matrices taken as given.</summary>
     public static BalanceReport Analyze(RateMatrix rates)
@@ -113,7 +113,7 @@ public static class DetailedBalance
                 var flowToJ = toJ > 0 ? Math.Log(toJ) + logPi[i] : double.NegativeInfinity;
                 var smallIsToJ = toJ < toI;
                 var small = smallIsToJ ? toJ : toI;
-                if (small < MinNormal)
+                if (small < _minNormal)
                 {
                     var expectedLog = smallIsToJ ? flowToI - logPi[i] : flowToJ - logPi[j];
                     if (tolerateUnderflow && expectedLog < _logMinNormal)

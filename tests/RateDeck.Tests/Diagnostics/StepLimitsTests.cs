@@ -14,7 +14,7 @@ namespace RateDeck.Tests.Diagnostics;
 /// </summary>
 public class StepLimitsTests
 {
-    private const int Steps = 10_000;
+    private const int _steps = 10_000;
     private static readonly ILinearAlgebra _algebra = new ManagedLinearAlgebra();
 
     private static double[] EulerStep(RateMatrix rates, double[] p, double dt) =>
@@ -42,7 +42,7 @@ public class StepLimitsTests
         p[0] = 1; // a corner start excites every mode
         var start = Norm(p);
         var largest = 0.0;
-        for (var n = 0; n < Steps; n++)
+        for (var n = 0; n < _steps; n++)
         {
             p = step(rates, p, dt);
             largest = Math.Max(largest, Norm(p) / start);

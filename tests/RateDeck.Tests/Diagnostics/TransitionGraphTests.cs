@@ -5,7 +5,7 @@ namespace RateDeck.Tests.Diagnostics;
 
 public class TransitionGraphTests
 {
-    private const int LongChain = 300_000;
+    private const int _longChain = 300_000;
 
     /// <summary>Successors as compressed lists, for graphs far larger than a dense K could hold.</summary>
     private sealed class ListSuccessors(int[] offsets, int[] targets) : ISuccessors
@@ -52,17 +52,17 @@ public class TransitionGraphTests
     {
         // Depth 300,000 would overflow a recursive Tarjan (Tarjan, SIAM J. Comput. 1 (1972) 146);
         // a one-way path has one component per node and only the sink is closed (common practice).
-        var (component, closed) = TransitionGraph.Condense(Chain(LongChain, backward: false));
+        var (component, closed) = TransitionGraph.Condense(Chain(_longChain, backward: false));
 
-        Assert.Equal(LongChain, closed.Length);
+        Assert.Equal(_longChain, closed.Length);
         Assert.Equal(1, closed.Count(c => c));
-        Assert.True(closed[component[LongChain - 1]]);
+        Assert.True(closed[component[_longChain - 1]]);
     }
 
     [Fact]
     public void TwoWayChain_OfThreeHundredThousandStates_IsOneClosedClass()
     {
-        var (component, closed) = TransitionGraph.Condense(Chain(LongChain, backward: true));
+        var (component, closed) = TransitionGraph.Condense(Chain(_longChain, backward: true));
 
         Assert.Single(closed);
         Assert.True(closed[0]);
