@@ -1,0 +1,37 @@
+using System.Globalization;
+
+namespace RateDeck.Diagnostics;
+
+/// <summary>Number formatting for the plain-text messages of the diagnostics, invariant culture.</summary>
+internal static class Format
+{
+    /// <summary>Three significant digits, exponent form outside [0.1, 1e5): 2.15e-3, 4.7e5, 0.125, 1620.</summary>
+    public static string Number(double value)
+    {
+        var magnitude = Math.Abs(value);
+        if (!double.IsFinite(value) || magnitude == 0)
+        {
+            return value.ToString(CultureInfo.InvariantCulture);
+        }
+
+        if (magnitude < 0.1 || magnitude >= 1e5)
+        {
+            return value.ToString("0.##e0", CultureInfo.InvariantCulture);
+        }
+
+        var unit = Math.Pow(10, Math.Floor(Math.Log10(magnitude)) - 2);
+        return (Math.Round(value / unit) * unit).ToString("0.###", CultureInfo.InvariantCulture);
+    }
+
+    /// <summary>A whole count: exact below a million, else in exponent form (4.7e6).</summary>
+    public static string Count(double count) =>
+        count < 1e6 ? count.ToString("0", CultureInfo.InvariantCulture) : count.ToString("0.##e0", CultureInfo.InvariantCulture);
+
+    /// <summary>"1 class", "2 classes".</summary>
+    public static string Count(int count, string singular, string plural) =>
+        $"{count.ToString(CultureInfo.InvariantCulture)} {(count == 1 ? singular : plural)}";
+
+    /// <summary>Labels joined for a message, at most <paramref name="limit"/> of them.</summary>
+    public static string Labels(IReadOnlyList<string> labels, int limit = 10) =>
+        labels.Count <= limit ? string.Join(", ", labels) : string.Join(", ", labels.Take(limit)) + $", ... ({labels.Count} states)";
+}

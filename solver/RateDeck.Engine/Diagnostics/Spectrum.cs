@@ -1,0 +1,199 @@
+using System.Numerics;
+using RateDeck.LinearAlgebra;
+using RateDeck.Rates;
+
+namespace RateDeck.Diagnostics;
+
+/// <summary>Which eigen-solver produced a <see cref="Spectrum"/>.</summary>
+public enum SpectrumPath
+{
+    /// <summary>Symmetric eigen-decomposition of S = D^(-1/2) K D^(1/2): detailed balance holds for the deck's pi, eigenvalues are real.</summary>
+    Symmetrized,
+
+    /// <summary>General eigen-decomposition of K itself: detailed balance fails or is not established.</summary>
+    General,
+}
+
+/// <summary>
+/// The eigenvalues of K, computed once, with the facts every later stage asks for: spectral
+/// radius, null space, slowest decay and the path taken.
+/// <para>
+/// Zero tolerance: an eigenvalue counts as zero when |lambda| &lt;= <see cref="ZeroToleranceFactor"/>
+/// * N * eps * rho. A backward-stable eigen-solver returns the exact eigenvalues of K + E with
+/// ||E|| of order p(N) eps ||K|| for a modest polynomial p (Golub and Van Loan, Matrix Computations,
+/// 4th ed., sec. 7.5.6 and 8.3, from memory); on the symmetric path ||S||_2 = rho and Weyl's
+/// theorem bounds every eigenvalue's shift by ||E||_2. The zero eigenvalue of a generator is well
+/// conditioned (its left eigenvector is the vector of ones, condition at most sqrt N). Taking
+/// p(N) = 100 N leaves two decades of margin; a mode slower than this tolerance cannot be told from
+/// zero at working precision, and the null space then counts it.
+/// </para>
+/// </summary>
+public sealed class Spectrum
+{
+    /// <summary>The zero tolerance is this factor times N times machine epsilon times rho.</summary>
+    public const double ZeroToleranceFactor = 100;
+
+    /// <summary>
+    /// A closed class carries a null vector when some null-space basis vector has at least this
+    /// squared 2-norm on the class (of 1 in total). An orthonormal basis of m null vectors gives
+    /// each loss-free class at least 1/m; a leaking class gets only rounding, of order eps^2.
+    /// </summary>
+    public const double NullWeightFloor = 1e-6;
+
+    /// <summary>Machine epsilon of double, 2^-52.</summary>
+    public const double MachineEpsilon = 2.220446049250313e-16;
+
+    private readonly double[] _logEquilibrium;
+    private readonly double[][] _nullBasis;
+
+    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general)
+    {
+        _logEquilibrium = rates.States.LogEquilibrium;
+        Path = path;
+        PathReason = reason;
+        Symmetric = symmetric;
+        General = general;
+        Values = [.. raw.OrderBy(v => v.Real).ThenBy(v => v.Imaginary)];
+        Eigenvalues = [.. Values.Select(v => v.Real)];
+        SpectralRadius = raw.Length == 0 ? 0 : raw.Max(Complex.Abs);
+        ZeroTolerance = ZeroToleranceFactor * raw.Length * MachineEpsilon * SpectralRadius;
+        var nullColumns = Enumerable.Range(0, raw.Length).Where(c => Complex.Abs(raw[c]) <= ZeroTolerance).ToList();
+        _nullBasis = [.. nullColumns.Select(c => RealNullVector(symmetric, general, c))];
+        var decaying = raw.Where(v => Complex.Abs(v) > ZeroTolerance && -v.Real > ZeroTolerance).ToList();
+        SlowestRate = decaying.Count == 0 ? null : decaying.Min(v => -v.Real);
+        NonDecayingCount = raw.Length - nullColumns.Count - decaying.Count;
+        MaxImaginaryPart = raw.Length == 0 ? 0 : raw.Max(v => Math.Abs(v.Imaginary));
+    }
+
+    /// <summary>The path taken.</summary>
+    public SpectrumPath Path { get; }
+
+    /// <summary>Why that path was taken, one line.</summary>
+    public string PathReason { get; }
+
+    /// <summary>All eigenvalues, sorted by real part ascending (most negative first), then imaginary part.</summary>
+    public Complex[] Values { get; }
+
+    /// <summary>Real parts of <see cref="Values"/>, in the same order (ascending).</summary>
+    public double[] Eigenvalues { get; }
+
+    /// <summary>rho = max |lambda|.</summary>
+    public double SpectralRadius { get; }
+
+    /// <summary>Eigenvalues with |lambda| at or below this count as zero: <see cref="ZeroToleranceFactor"/> * N * eps * rho.</summary>
+    public double ZeroTolerance { get; }
+
+    /// <summary>Number of zero eigenvalues within <see cref="ZeroTolerance"/>.</summary>
+    public int NullDimension => _nullBasis.Length;
+
+    /// <summary>Decay rate -Re(lambda) of the slowest decaying mode (beyond the zero tolerance); null when no mode decays.</summary>
+    public double? SlowestRate { get; }
+
+    /// <summary>Non-zero eigenvalues whose real part is not below -<see cref="ZeroTolerance"/> (oscillating or growing modes); a sane generator has none.</summary>
+    public int NonDecayingCount { get; }
+
+    /// <summary>max |Im lambda|; zero on the symmetric path.</summary>
+    public double MaxImaginaryPart { get; }
+
+    /// <summary>True when every eigenvalue is real to within <see cref="ZeroTolerance"/>.</summary>
+    public bool IsReal => MaxImaginaryPart <= ZeroTolerance;
+
+    /// <summary>The decomposition of S on the symmetric path (columns in the solver's order), else null.</summary>
+    public SymmetricEigenDecomposition? Symmetric { get; }
+
+    /// <summary>The decomposition of K on the general path (columns in the solver's order), else null.</summary>
+    public GeneralEigenDecomposition? General { get; }
+
+    /// <summary>
+    /// Decides the path and computes the eigenvalues: the symmetric solver on S when the matrix was
+    /// completed by detailed balance, or was taken as given and measures within
+    /// <see cref="DetailedBalance.PairTolerance"/> of balance against the deck's pi with no one-way
+    /// edge; otherwise the general solver on K. Throws <see cref="ArgumentException"/> when K has a
+    /// non-finite entry (no eigen-solver can use it).
+    /// </summary>
+    public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra) =>
+        Compute(rates, algebra, rates.Origin == BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(rates) : null);
+
+    /// <summary>As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance already measured (null for completed matrices).</summary>
+    internal static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport? balance)
+    {
+        if (rates.Generator.Values.Any(v => !double.IsFinite(v)))
+        {
+            throw new ArgumentException("the rate matrix has non-finite entries; fix the rates before asking for its spectrum", nameof(rates));
+        }
+
+        string reason;
+        if (rates.Origin == BalanceOrigin.CompletedByDetailedBalance)
+        {
+            reason = "detailed balance holds by construction (one triangle completed from pi): symmetric eigen-decomposition of S";
+        }
+        else if (balance is { HoldsForDeckEquilibrium: true })
+        {
+            reason = $"measured detailed-balance violation {Format.Number(balance.PairViolation)} is within {Format.Number(DetailedBalance.PairTolerance)} for the deck's pi: symmetric eigen-decomposition of S";
+        }
+        else
+        {
+            var why = balance is null || balance.OneWayCount == 0
+                ? $"worst pair violation {Format.Number(balance?.PairViolation ?? double.NaN)} exceeds {Format.Number(DetailedBalance.PairTolerance)}"
+                : Format.Count(balance.OneWayCount, "one-way edge", "one-way edges");
+            var decomposition = algebra.GeneralEigen(rates.Generator);
+            return new Spectrum(rates, SpectrumPath.General, $"detailed balance fails for the deck's pi ({why}): general eigen-decomposition of K", decomposition.Values, null, decomposition);
+        }
+
+        var symmetric = algebra.SymmetricEigen(SymmetrizedGenerator.Build(rates));
+        return new Spectrum(rates, SpectrumPath.Symmetrized, reason, [.. symmetric.Values.Select(v => new Complex(v, 0))], symmetric, null);
+    }
+
+    /// <summary>
+    /// The stationary vector of K supported on <paramref name="states"/> (a closed class), taken from
+    /// the null-space basis and normalised to sum 1, in the order of <paramref name="states"/>; null
+    /// when no null vector carries weight <see cref="NullWeightFloor"/> there (a leaking class, or
+    /// a null space too small). Uses the basis vector with the most weight on the class: all of
+    /// them are proportional there, since null vectors vanish on transient states and are
+    /// stationary laws on each closed class. On the symmetric path the null vector of K is
+    /// D^(1/2) times that of S, formed in log space so that tiny pi cannot underflow early.
+    /// </summary>
+    public double[]? NullVectorOn(IReadOnlyList<int> states)
+    {
+        var best = _nullBasis
+            .Select(vector => (Vector: vector, Weight: states.Sum(s => vector[s] * vector[s])))
+            .Where(candidate => candidate.Weight >= NullWeightFloor)
+            .OrderByDescending(candidate => candidate.Weight)
+            .Select(candidate => candidate.Vector)
+            .FirstOrDefault();
+        if (best is null)
+        {
+            return null;
+        }
+
+        double[] vector;
+        if (Symmetric is not null)
+        {
+            // v_i = u_i sqrt(pi_i), scaled by the largest |v_i| in log space before leaving it.
+            var logs = states.Select(s => Math.Log(Math.Abs(best[s])) + (0.5 * _logEquilibrium[s])).ToArray();
+            var top = logs.Max();
+            vector = [.. states.Select((s, k) => Math.Sign(best[s]) * Math.Exp(logs[k] - top))];
+        }
+        else
+        {
+            vector = [.. states.Select(s => best[s])];
+        }
+
+        var sum = vector.Sum();
+        return [.. vector.Select(v => v / sum)];
+    }
+
+    /// <summary>Null basis vector of column <paramref name="column"/> as real numbers: a general-path vector is turned so that its largest entry is real and positive.</summary>
+    private static double[] RealNullVector(SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, int column)
+    {
+        if (symmetric is not null)
+        {
+            return symmetric.Vectors.Column(column).ToArray();
+        }
+
+        var vector = general!.Vectors.Column(column);
+        var pivot = vector[vector.AbsoluteMaximumIndex()];
+        var turn = Complex.Conjugate(pivot) / Complex.Abs(pivot);
+        return [.. vector.Select(v => (v * turn).Real)];
+    }
+}
