@@ -8,7 +8,7 @@ namespace RateDeck.Cli;
 /// <summary>Dispatches the first argument to a verb and maps every failure to a plain message and an exit code.</summary>
 public static class Commands
 {
-    private static readonly IVerb[] Verbs = [];
+    private static readonly IVerb[] _verbs = [];
 
     /// <summary>Runs the verb named by the first argument.</summary>
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
@@ -24,10 +24,10 @@ public static class Commands
             return ExitCodes.Success;
         }
 
-        var verb = Verbs.FirstOrDefault(v => v.Syntax.Verb == args[0]);
+        var verb = _verbs.FirstOrDefault(v => v.Syntax.Verb == args[0]);
         if (verb is null)
         {
-            stderr.WriteLine($"ratedeck: no verb '{args[0]}'.{Suggestions.Hint(args[0], Verbs.Select(v => v.Syntax.Verb))} The verbs are {string.Join(", ", Verbs.Select(v => v.Syntax.Verb))}");
+            stderr.WriteLine($"ratedeck: no verb '{args[0]}'.{Suggestions.Hint(args[0], _verbs.Select(v => v.Syntax.Verb))} The verbs are {string.Join(", ", _verbs.Select(v => v.Syntax.Verb))}");
             return ExitCodes.BadInput;
         }
 
@@ -73,12 +73,12 @@ public static class Commands
     private static int Help(string? verbName, TextWriter stdout, TextWriter stderr, int exitCode)
     {
         var writer = exitCode == ExitCodes.Success ? stdout : stderr;
-        var verb = Verbs.FirstOrDefault(v => v.Syntax.Verb == verbName);
+        var verb = _verbs.FirstOrDefault(v => v.Syntax.Verb == verbName);
         if (verb is null)
         {
             writer.WriteLine("usage: ratedeck VERB DECK [options]");
             writer.WriteLine();
-            foreach (var v in Verbs)
+            foreach (var v in _verbs)
             {
                 writer.WriteLine($"  {v.Syntax.Verb,-10} {v.Syntax.Summary}");
             }

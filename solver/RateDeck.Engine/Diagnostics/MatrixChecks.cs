@@ -1,5 +1,6 @@
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 

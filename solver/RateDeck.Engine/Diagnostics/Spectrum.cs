@@ -1,6 +1,7 @@
 using System.Numerics;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 

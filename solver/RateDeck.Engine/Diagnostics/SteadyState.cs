@@ -1,6 +1,7 @@
 using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 

@@ -1,5 +1,6 @@
 using System.Numerics;
 using RateDeck.Rates;
+using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 

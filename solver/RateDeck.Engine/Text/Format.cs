@@ -1,9 +1,9 @@
 using System.Globalization;
 
-namespace RateDeck.Diagnostics;
+namespace RateDeck.Text;
 
 /// <summary>Number formatting for the plain-text messages of the diagnostics, invariant culture.</summary>
-internal static class Format
+public static class Format
 {
     /// <summary>Three significant digits, exponent form outside [0.1, 1e5): 2.15e-3, 4.7e5, 0.125, 1620.</summary>
     public static string Number(double value)

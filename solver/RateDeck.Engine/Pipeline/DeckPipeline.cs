@@ -1,0 +1,25 @@
+using RateDeck.Decks;
+using RateDeck.LinearAlgebra;
+using RateDeck.Rates;
+using RateDeck.States;
+
+namespace RateDeck.Pipeline;
+
+/// <summary>
+/// The stages every verb and the fitter share, in order: deck text -> validated deck -> state
+/// space -> rate matrix. Later stages (diagnostics, propagators, outputs) take the result.
+/// </summary>
+public static class DeckPipeline
+{
+    /// <summary>Reads, validates and assembles the deck at <paramref name="path"/>; throws <see cref="DeckException"/> on bad input.</summary>
+    public static LoadedDeck Load(string path, IReadOnlyList<string> overrides, ILinearAlgebra algebra) =>
+        Assemble(DeckReader.Read(path, overrides), algebra);
+
+    /// <summary>Evaluates and assembles an already validated deck (the fitter calls this for each trial).</summary>
+    public static LoadedDeck Assemble(Deck deck, ILinearAlgebra algebra)
+    {
+        var states = StateSpaceBuilder.Build(deck);
+        var rates = RateMatrixAssembler.Assemble(deck, states);
+        return new LoadedDeck(deck, states, rates, algebra);
+    }
+}

@@ -1,0 +1,13 @@
+using RateDeck.Decks;
+using RateDeck.LinearAlgebra;
+using RateDeck.Rates;
+using RateDeck.States;
+
+namespace RateDeck.Pipeline;
+
+/// <summary>A deck taken through the first stages: validated, its states evaluated, its rate matrix assembled.</summary>
+/// <param name="Deck">The validated deck.</param>
+/// <param name="States">The evaluated state space.</param>
+/// <param name="Rates">The assembled generator.</param>
+/// <param name="Algebra">The linear-algebra provider the later stages use.</param>
+public sealed record LoadedDeck(Deck Deck, StateSpace States, RateMatrix Rates, ILinearAlgebra Algebra);
