@@ -16,7 +16,7 @@ internal sealed class DecadeTickGenerator : ITickGenerator
     private static readonly int[] _decadeSteps = [1, 2, 3, 5, 10, 20, 25, 50, 100, 200, 500, 1000];
 
     // Minor ticks at 2..9 x 10^n need this many pixels per decade to stay distinct.
-    private const float MinPixelsPerDecadeForDigitTicks = 40;
+    private const float _minPixelsPerDecadeForDigitTicks = 40;
 
     public Tick[] Ticks { get; set; } = [];
 
@@ -51,7 +51,7 @@ internal sealed class DecadeTickGenerator : ITickGenerator
         {
             ticks.Add(((n % step) + step) % step == 0 ? Tick.Major(n, DecadeLabel(n)) : Tick.Minor(n));
         }
-        if (step == 1 && pixelsPerDecade >= MinPixelsPerDecadeForDigitTicks)
+        if (step == 1 && pixelsPerDecade >= _minPixelsPerDecadeForDigitTicks)
         {
             for (var n = first - 1; n <= last; n++)
             {

@@ -4,14 +4,14 @@ namespace RateDeck.Outputs;
 /// The cells of one heat-map axis. Each sample owns the interval between the midpoints to its
 /// neighbours (the end cells mirrored). ScottPlot's heat map needs equal cells, so samples on a
 /// non-uniform grid are spread over enough equal cells that the narrowest sample still gets one
-/// (at most <see cref="MaxCells"/>); each equal cell shows the sample that owns its centre.
+/// (at most <see cref="_maxCells"/>); each equal cell shows the sample that owns its centre.
 /// </summary>
 internal sealed class MapCells
 {
-    private const int MaxCells = 2048;
+    private const int _maxCells = 2048;
 
     // Spacings equal to this relative tolerance count as a uniform grid (one cell per sample).
-    private const double UniformTolerance = 1e-6;
+    private const double _uniformTolerance = 1e-6;
 
     private MapCells(double low, double high, int[] owners)
     {
@@ -59,11 +59,11 @@ internal sealed class MapCells
             narrowest = Math.Min(narrowest, positions[k] - positions[k - 1]);
             widest = Math.Max(widest, positions[k] - positions[k - 1]);
         }
-        if (widest - narrowest <= UniformTolerance * widest)
+        if (widest - narrowest <= _uniformTolerance * widest)
         {
             return new MapCells(edges[0], edges[n], Enumerable.Range(0, n).ToArray());
         }
-        var count = (int)Math.Clamp(Math.Ceiling((edges[n] - edges[0]) / narrowest), n, MaxCells);
+        var count = (int)Math.Clamp(Math.Ceiling((edges[n] - edges[0]) / narrowest), n, _maxCells);
         var owners = new int[count];
         var width = (edges[n] - edges[0]) / count;
         var owner = 0;

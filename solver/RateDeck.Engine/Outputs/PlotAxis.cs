@@ -10,7 +10,7 @@ internal sealed class PlotAxis
 {
     // Below zero by less than this fraction of the largest magnitude is rounding noise (explicit
     // steps leave -1e-17 where the population is zero); it must not force a linear axis.
-    private const double RoundingNoise = 1e-12;
+    private const double _roundingNoise = 1e-12;
 
     private PlotAxis(bool isLog) => IsLog = isLog;
 
@@ -92,7 +92,7 @@ internal sealed class PlotAxis
             return new PlotAxis(false);
         }
         var largest = finite.Max(Math.Abs);
-        if (finite.Any(v => v < -RoundingNoise * largest))
+        if (finite.Any(v => v < -_roundingNoise * largest))
         {
             return new PlotAxis(false);
         }

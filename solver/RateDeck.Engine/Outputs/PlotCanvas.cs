@@ -14,14 +14,14 @@ internal static class PlotCanvas
     public const float LineWidth = 2.5f;
     public const float MarkerSize = 9;
 
-    private const float LayoutWidth = 800;
-    private const float LayoutHeight = 500;
-    private const float MinScale = 0.75f;
-    private const float TitleSize = 19;
-    private const float AxisLabelSize = 17;
-    private const float TickLabelSize = 14;
-    private const float LegendSize = 14;
-    private const string PreferredFont = "DejaVu Sans";
+    private const float _layoutWidth = 800;
+    private const float _layoutHeight = 500;
+    private const float _minScale = 0.75f;
+    private const float _titleSize = 19;
+    private const float _axisLabelSize = 17;
+    private const float _tickLabelSize = 14;
+    private const float _legendSize = 14;
+    private const string _preferredFont = "DejaVu Sans";
 
     public static readonly IPalette SeriesPalette = new ScottPlot.Palettes.Category10();
     public static readonly LinePattern[] Patterns = [LinePattern.Solid, LinePattern.Dashed, LinePattern.Dotted, LinePattern.DenselyDashed];
@@ -44,18 +44,18 @@ internal static class PlotCanvas
             throw new ArgumentException($"A plot needs at least 200 x 150 pixels, not {options.Width} x {options.Height}.", nameof(options));
         }
         // Small images keep text at three quarters of the layout size at least, or it gets unreadable.
-        var scale = Math.Max(MinScale, Math.Min(options.Width / LayoutWidth, options.Height / LayoutHeight));
+        var scale = Math.Max(_minScale, Math.Min(options.Width / _layoutWidth, options.Height / _layoutHeight));
         var plot = new Plot { ScaleFactor = scale };
         if (FontFamily is not null)
         {
             plot.Font.Set(FontFamily);
         }
         plot.Axes.Title.Label.Text = text.Title;
-        plot.Axes.Title.Label.FontSize = TitleSize;
+        plot.Axes.Title.Label.FontSize = _titleSize;
         foreach (var (axis, label) in new[] { ((IAxis)plot.Axes.Bottom, text.XLabel), (plot.Axes.Left, text.YLabel) })
         {
             axis.Label.Text = label;
-            axis.Label.FontSize = AxisLabelSize;
+            axis.Label.FontSize = _axisLabelSize;
             axis.Label.Bold = false;
             StyleTicks(axis);
         }
@@ -68,7 +68,7 @@ internal static class PlotCanvas
     /// <summary>Tick marks and tick labels at the common size.</summary>
     public static void StyleTicks(IAxis axis)
     {
-        axis.TickLabelStyle.FontSize = TickLabelSize;
+        axis.TickLabelStyle.FontSize = _tickLabelSize;
         axis.MajorTickStyle.Length = 7;
         axis.MajorTickStyle.Width = 1.5f;
         axis.MinorTickStyle.Length = 4;
@@ -78,7 +78,7 @@ internal static class PlotCanvas
     /// <summary>A label at the axis-label size (for the colour bar).</summary>
     public static void StyleLabel(LabelStyle label)
     {
-        label.FontSize = AxisLabelSize;
+        label.FontSize = _axisLabelSize;
         if (FontFamily is not null)
         {
             label.FontName = FontFamily;
@@ -133,7 +133,7 @@ internal static class PlotCanvas
             return;
         }
         plot.Legend.ManualItems.AddRange(items);
-        plot.Legend.FontSize = LegendSize;
+        plot.Legend.FontSize = _legendSize;
         if (FontFamily is not null)
         {
             plot.Legend.FontName = FontFamily;
@@ -169,6 +169,6 @@ internal static class PlotCanvas
     private static string? FindFont()
     {
         var families = SkiaSharp.SKFontManager.Default.FontFamilies;
-        return families.Contains(PreferredFont, StringComparer.Ordinal) ? PreferredFont : families.FirstOrDefault();
+        return families.Contains(_preferredFont, StringComparer.Ordinal) ? _preferredFont : families.FirstOrDefault();
     }
 }

@@ -23,7 +23,7 @@ namespace RateDeck.Outputs;
 /// </summary>
 public static class Plots
 {
-    private const int MaxMarkersPerSeries = 60;
+    private const int _maxMarkersPerSeries = 60;
 
     private static readonly MarkerShape[] _shapes =
         [MarkerShape.FilledCircle, MarkerShape.FilledSquare, MarkerShape.FilledTriangleUp, MarkerShape.FilledDiamond, MarkerShape.FilledTriangleDown];
@@ -70,7 +70,7 @@ public static class Plots
             if (series[k].Explicit is { } explicitValues)
             {
                 var (mx, my) = PlotAxis.MapPoints(x, y, times, explicitValues);
-                var stride = Math.Max(1, (int)Math.Ceiling(mx.Length / (double)MaxMarkersPerSeries));
+                var stride = Math.Max(1, (int)Math.Ceiling(mx.Length / (double)_maxMarkersPerSeries));
                 mx = mx.Where((_, i) => i % stride == 0).ToArray();
                 my = my.Where((_, i) => i % stride == 0).ToArray();
                 var markers = plot.Add.Markers(mx, my, MarkerShape.OpenCircle, MarkerSize, color);
@@ -84,8 +84,12 @@ public static class Plots
             legend.Add(new LegendItem { LabelText = $"line: {exactName}", LineColor = Colors.Black, LineWidth = LineWidth });
             legend.Add(new LegendItem
             {
-                LabelText = $"marker: {explicitName}", LineWidth = 0, MarkerShape = MarkerShape.OpenCircle, MarkerSize = MarkerSize,
-                MarkerLineColor = Colors.Black, MarkerLineWidth = 2,
+                LabelText = $"marker: {explicitName}",
+                LineWidth = 0,
+                MarkerShape = MarkerShape.OpenCircle,
+                MarkerSize = MarkerSize,
+                MarkerLineColor = Colors.Black,
+                MarkerLineWidth = 2,
             });
         }
         FinishAxes(plot, x, y, drawn, options.MaxDecades);
@@ -238,8 +242,14 @@ public static class Plots
             AddLinePoints(drawn, px, py);
             legend.Add(new LegendItem
             {
-                LabelText = curves[k].Label, LineColor = color, LineWidth = LineWidth, LinePattern = pattern,
-                MarkerShape = shape, MarkerSize = 7, MarkerFillColor = color, MarkerLineColor = color,
+                LabelText = curves[k].Label,
+                LineColor = color,
+                LineWidth = LineWidth,
+                LinePattern = pattern,
+                MarkerShape = shape,
+                MarkerSize = 7,
+                MarkerFillColor = color,
+                MarkerLineColor = color,
             });
         }
         FinishAxes(plot, x, y, drawn, options.MaxDecades);
@@ -261,8 +271,12 @@ public static class Plots
         drawn.AddRange(px.Select((v, i) => new Coordinates(v, py[i])));
         legend.Add(new LegendItem
         {
-            LabelText = $"|λ| {label} ({px.Length})", LineWidth = 0, MarkerShape = MarkerShape.FilledCircle, MarkerSize = size,
-            MarkerFillColor = color, MarkerLineColor = color,
+            LabelText = $"|λ| {label} ({px.Length})",
+            LineWidth = 0,
+            MarkerShape = MarkerShape.FilledCircle,
+            MarkerSize = size,
+            MarkerFillColor = color,
+            MarkerLineColor = color,
         });
     }
 

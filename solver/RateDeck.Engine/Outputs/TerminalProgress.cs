@@ -10,7 +10,7 @@ namespace RateDeck.Outputs;
 /// </summary>
 public sealed class TerminalProgress : IProgress<double>, IDisposable
 {
-    private const int BarWidth = 30;
+    private const int _barWidth = 30;
     private static readonly TimeSpan _redrawInterval = TimeSpan.FromMilliseconds(100);
 
     private readonly string _label;
@@ -95,9 +95,9 @@ public sealed class TerminalProgress : IProgress<double>, IDisposable
 
     private void Draw(double fraction, TimeSpan elapsed)
     {
-        var filled = (int)Math.Round(fraction * BarWidth);
+        var filled = (int)Math.Round(fraction * _barWidth);
         var line = string.Create(CultureInfo.InvariantCulture,
-            $"{_label} [{new string('#', filled)}{new string('.', BarWidth - filled)}] {fraction * 100,5:0.0}%  {Remaining(fraction, elapsed)}");
+            $"{_label} [{new string('#', filled)}{new string('.', _barWidth - filled)}] {fraction * 100,5:0.0}%  {Remaining(fraction, elapsed)}");
         // Carriage return and padding overwrite the previous, possibly longer, line in place.
         _writer!.Write('\r');
         _writer.Write(line.PadRight(_lastLength));
