@@ -65,9 +65,16 @@ internal static class PlotCanvas
         return plot;
     }
 
-    /// <summary>Tick marks and tick labels at the common size.</summary>
+    /// <summary>
+    /// Tick marks and tick labels at the common size; linear tick labels as plain invariant
+    /// numbers (1000, not 1,000).
+    /// </summary>
     public static void StyleTicks(IAxis axis)
     {
+        if (axis.TickGenerator is ScottPlot.TickGenerators.NumericAutomatic numeric)
+        {
+            numeric.LabelFormatter = value => value.ToString("G6", CultureInfo.InvariantCulture);
+        }
         axis.TickLabelStyle.FontSize = _tickLabelSize;
         axis.MajorTickStyle.Length = 7;
         axis.MajorTickStyle.Width = 1.5f;

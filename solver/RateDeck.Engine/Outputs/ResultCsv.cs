@@ -5,9 +5,9 @@ using RateDeck.Propagation;
 
 namespace RateDeck.Outputs;
 
-/// <summary>A named per-state column of a <see cref="ResultCsv.WritePerStateTable"/> file.</summary>
+/// <summary>A named numeric column of a <see cref="ResultCsv.WritePerStateTable"/> or <see cref="ResultCsv.WriteColumns"/> file.</summary>
 /// <param name="Name">Column header, e.g. <c>energy</c> or <c>period</c>.</param>
-/// <param name="Values">One value per state, in state order.</param>
+/// <param name="Values">One value per row (per state, in state order, in a per-state table).</param>
 /// <param name="Unit">The unit, written to a <c># units:</c> comment line; null for a pure number.</param>
 public sealed record CsvColumn(string Name, IReadOnlyList<double> Values, string? Unit = null);
 
@@ -123,19 +123,36 @@ public static class ResultCsv
     public static void WritePerStateTable(string path, OutputHeader header, IReadOnlyList<string> labels, IReadOnlyList<CsvColumn> columns)
     {
         ArgumentNullException.ThrowIfNull(labels);
+        WriteColumnTable(path, header, labels, columns);
+    }
+
+    /// <summary>
+    /// A table of numeric columns of equal length (e.g. fit residuals: time, observed, fitted,
+    /// residual), one column per <paramref name="columns"/> entry, units as in <see cref="WritePerStateTable"/>.
+    /// </summary>
+    public static void WriteColumns(string path, OutputHeader header, IReadOnlyList<CsvColumn> columns) =>
+        WriteColumnTable(path, header, null, columns);
+
+    private static void WriteColumnTable(string path, OutputHeader header, IReadOnlyList<string>? labels, IReadOnlyList<CsvColumn> columns)
+    {
         ArgumentNullException.ThrowIfNull(columns);
+        var rowCount = labels?.Count ?? (columns.Count == 0 ? 0 : columns[0].Values.Count);
         foreach (var column in columns)
         {
-            if (column.Values.Count != labels.Count)
+            if (column.Values.Count != rowCount)
             {
-                throw new ArgumentException($"Column '{column.Name}' has {column.Values.Count} values for {labels.Count} states.", nameof(columns));
+                throw new ArgumentException($"Column '{column.Name}' has {column.Values.Count} values where {rowCount} are expected.", nameof(columns));
             }
         }
         var units = string.Join(", ", columns.Where(c => c.Unit is not null).Select(c => $"{c.Name}={c.Unit}"));
         var notes = units.Length == 0 ? [] : new[] { KeyValuePair.Create("units", units) };
-        WriteTable(path, header, notes, ["label", .. columns.Select(c => c.Name)], labels.Count, (i, row) =>
+        string[] names = labels is null ? [.. columns.Select(c => c.Name)] : ["label", .. columns.Select(c => c.Name)];
+        WriteTable(path, header, notes, names, rowCount, (i, row) =>
         {
-            row.WriteField(labels[i]);
+            if (labels is not null)
+            {
+                row.WriteField(labels[i]);
+            }
             foreach (var column in columns)
             {
                 row.WriteField(CsvNumber.Format(column.Values[i]));

@@ -195,6 +195,22 @@ public sealed class CsvOutputTests
             ResultCsv.WritePerStateTable(folder.File("x.csv"), _header, ["a", "b"], [new CsvColumn("energy", [1.0])]));
     }
 
+    [Fact]
+    public void NumericColumns_WriteOneColumnPerEntry_AndRejectRaggedColumns()
+    {
+        using var folder = new TempFolder();
+        var path = folder.File("residuals.csv");
+
+        ResultCsv.WriteColumns(path, _header, [new CsvColumn("time", [0.0, 1.0], "s"), new CsvColumn("residual", [0.125, -0.5])]);
+        var table = ReadTable(path);
+
+        Assert.Equal(["time", "residual"], table.Header);
+        Assert.Equal(-0.5, table.Number(1, "residual"));
+        Assert.Contains("# units: time=s", File.ReadAllLines(path));
+        Assert.Throws<ArgumentException>(() =>
+            ResultCsv.WriteColumns(folder.File("bad.csv"), _header, [new CsvColumn("time", [0.0, 1.0]), new CsvColumn("residual", [0.1])]));
+    }
+
     private static double RandomFiniteDouble(Random random)
     {
         while (true)

@@ -60,6 +60,14 @@ public sealed class JsonSummaryTests
     }
 
     [Fact]
+    public void OutputHeader_InASummary_UsesTheKeysOfTheCsvHeader()
+    {
+        var json = JsonSummary.Serialize(new OutputHeader("0.1.0", "d.toml", "ab", ["kT=1"]));
+
+        Assert.Equal("{\"tool_version\":\"0.1.0\",\"deck_path\":\"d.toml\",\"deck_sha256\":\"ab\",\"overrides\":[\"kT=1\"]}", json);
+    }
+
+    [Fact]
     public void DictionaryAsSummary_KeepsItsKeys()
     {
         var json = JsonSummary.Serialize(new Dictionary<string, object?> { ["exit_code"] = 0, ["max_relative_difference"] = double.NaN });
