@@ -1,0 +1,77 @@
+namespace RateDeck.Outputs;
+
+/// <summary>How an axis of a plot is scaled.</summary>
+public enum AxisScale
+{
+    /// <summary>Logarithmic when the data call for it (see <see cref="Plots"/>), otherwise linear.</summary>
+    Auto,
+    /// <summary>Always linear.</summary>
+    Linear,
+    /// <summary>Always logarithmic; zero and negative values are not drawn.</summary>
+    Log,
+}
+
+/// <summary>The words on a plot. Axis labels should carry their unit, e.g. <c>time (ps)</c>.</summary>
+/// <param name="Title">The title above the plot.</param>
+/// <param name="XLabel">The horizontal axis label, with unit.</param>
+/// <param name="YLabel">The vertical axis label, with unit.</param>
+/// <param name="ValueLabel">The colour-bar label of a map (default <c>population</c>); unused elsewhere.</param>
+public sealed record PlotText(string Title, string XLabel, string YLabel, string? ValueLabel = null);
+
+/// <summary>Image size and axis scaling of a plot.</summary>
+public sealed record PlotOptions
+{
+    /// <summary>The defaults: 1600 x 1000 pixels, both axes automatic, at most 20 decades shown.</summary>
+    public static PlotOptions Default { get; } = new();
+
+    /// <summary>Image width in pixels (at least 200). Text and lines scale with it.</summary>
+    public int Width { get; init; } = 1600;
+
+    /// <summary>Image height in pixels (at least 150).</summary>
+    public int Height { get; init; } = 1000;
+
+    /// <summary>Scaling of the horizontal axis.</summary>
+    public AxisScale XScale { get; init; } = AxisScale.Auto;
+
+    /// <summary>Scaling of the vertical axis.</summary>
+    public AxisScale YScale { get; init; } = AxisScale.Auto;
+
+    /// <summary>
+    /// How many decades below the largest value a logarithmic value axis (or the colour scale of a
+    /// map) reaches at most. Boltzmann tails can span hundreds of decades; showing them all would
+    /// squash the part that matters into a line.
+    /// </summary>
+    public double MaxDecades { get; init; } = 20;
+}
+
+/// <summary>One state's population over time, exact and (optionally) explicit.</summary>
+/// <param name="Label">The state label for the legend.</param>
+/// <param name="Exact">The exact propagation at each output time, drawn as a line.</param>
+/// <param name="Explicit">The explicit integration at the same times, drawn as markers; null when not run.</param>
+public sealed record StateSeries(string Label, double[] Exact, double[]? Explicit = null);
+
+/// <summary>A named curve over the states, e.g. the initial, final or steady-state distribution.</summary>
+/// <param name="Label">The legend entry.</param>
+/// <param name="Values">One value per state.</param>
+public sealed record Curve(string Label, double[] Values);
+
+/// <summary>
+/// A horizontal marker on the spectrum plot: the largest |lambda| an explicit step tolerates.
+/// </summary>
+/// <param name="Label">The legend entry.</param>
+/// <param name="Magnitude">The |lambda| at which the line is drawn, per time unit.</param>
+public sealed record RateLimitLine(string Label, double Magnitude)
+{
+    /// <summary>
+    /// Forward Euler with step <paramref name="dt"/>: stable for |1 + lambda dt| &lt;= 1, so on the
+    /// negative real axis up to |lambda| = 2 / dt (SPEC 2; common practice).
+    /// </summary>
+    public static RateLimitLine ForwardEuler(double dt) => new($"Euler, dt = {PlotCanvas.Number(dt)}: 2/dt", 2.0 / dt);
+
+    /// <summary>
+    /// Classical RK4 with step <paramref name="dt"/>: its stability region meets the negative real
+    /// axis at lambda dt = -2.785 (SPEC 2; the value 2.7853 is tabulated in Hairer and Wanner,
+    /// Solving ODEs II, from memory), so the line is at 2.785 / dt.
+    /// </summary>
+    public static RateLimitLine RungeKutta4(double dt) => new($"RK4, dt = {PlotCanvas.Number(dt)}: 2.785/dt", 2.785 / dt);
+}

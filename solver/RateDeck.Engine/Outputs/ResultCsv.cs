@@ -1,0 +1,212 @@
+using System.Globalization;
+using System.Numerics;
+using CsvHelper;
+using RateDeck.Propagation;
+
+namespace RateDeck.Outputs;
+
+/// <summary>A named numeric column of a <see cref="ResultCsv.WritePerStateTable"/> or <see cref="ResultCsv.WriteColumns"/> file.</summary>
+/// <param name="Name">Column header, e.g. <c>energy</c> or <c>period</c>.</param>
+/// <param name="Values">One value per row (per state, in state order, in a per-state table).</param>
+/// <param name="Unit">The unit, written to a <c># units:</c> comment line; null for a pure number.</param>
+public sealed record CsvColumn(string Name, IReadOnlyList<double> Values, string? Unit = null);
+
+/// <summary>
+/// The CSV result files. Each starts with the <see cref="OutputHeader"/> comment lines, then
+/// file-specific <c># key: value</c> notes (units, what a value means), then a header row. Numbers
+/// are written by <see cref="CsvNumber"/>: invariant culture, exact round trip, <c>inf</c>/<c>nan</c>.
+/// Files are written through <see cref="AtomicFile"/>. Read them with <see cref="ReaderOptions"/>.
+/// </summary>
+public static class ResultCsv
+{
+    private static readonly CsvWriterOptions _writerOptions = new()
+    {
+        NewLine = "\n",
+        // With the prefix set, CsvHelper quotes a field that starts with '#', so a state label such
+        // as "#3" in the first column cannot be mistaken for a comment when read back.
+        CommentPrefix = OutputHeader.CommentChar,
+        FormatProvider = CultureInfo.InvariantCulture,
+    };
+
+    /// <summary>Reader settings that skip the comment lines and take the first row as the header.</summary>
+    public static CsvReaderOptions ReaderOptions { get; } = new()
+    {
+        CommentPrefix = OutputHeader.CommentChar,
+        HasHeader = true,
+        FormatProvider = CultureInfo.InvariantCulture,
+    };
+
+    /// <summary>
+    /// Populations over time: columns <c>time</c>, then one per state label.
+    /// Row k holds <c>trajectory.Populations[k]</c>.
+    /// </summary>
+    public static void WriteTrajectory(string path, OutputHeader header, IReadOnlyList<string> stateLabels, Trajectory trajectory, string timeUnit)
+    {
+        ArgumentNullException.ThrowIfNull(trajectory);
+        RequireRows(trajectory, stateLabels.Count, nameof(trajectory));
+        WriteTimeTable(path, header, stateLabels, trajectory.Times, timeUnit, "populations", (k, i) => trajectory.Populations[k][i]);
+    }
+
+    /// <summary>
+    /// Absolute difference |explicit - exact| per state at each output time: columns <c>time</c>,
+    /// then one per state label. Both trajectories must share their output times.
+    /// </summary>
+    public static void WriteDifferences(string path, OutputHeader header, IReadOnlyList<string> stateLabels, Trajectory exact, Trajectory explicitResult, string timeUnit)
+    {
+        ArgumentNullException.ThrowIfNull(exact);
+        ArgumentNullException.ThrowIfNull(explicitResult);
+        RequireRows(exact, stateLabels.Count, nameof(exact));
+        RequireRows(explicitResult, stateLabels.Count, nameof(explicitResult));
+        if (!exact.Times.AsSpan().SequenceEqual(explicitResult.Times))
+        {
+            throw new ArgumentException("The exact and explicit trajectories must have the same output times.", nameof(explicitResult));
+        }
+        WriteTimeTable(path, header, stateLabels, exact.Times, timeUnit, "|explicit - exact| per state",
+            (k, i) => Math.Abs(explicitResult.Populations[k][i] - exact.Populations[k][i]));
+    }
+
+    /// <summary>
+    /// Real eigenvalues of the generator: columns <c>index</c> (zero-based, in the given order),
+    /// <c>eigenvalue</c> (per time unit) and <c>relaxation_time</c> = 1 / |lambda| (time unit),
+    /// <c>inf</c> for a zero mode, i.e. |lambda| &lt;= <paramref name="zeroTolerance"/>.
+    /// </summary>
+    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<double> eigenvalues, string timeUnit, double zeroTolerance = 0)
+    {
+        ArgumentNullException.ThrowIfNull(eigenvalues);
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["index", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        {
+            row.WriteField(k.ToString(CultureInfo.InvariantCulture));
+            row.WriteField(CsvNumber.Format(eigenvalues[k]));
+            row.WriteField(CsvNumber.Format(RelaxationTime(eigenvalues[k], zeroTolerance)));
+        });
+    }
+
+    /// <summary>
+    /// Complex eigenvalues (a generator without detailed balance): columns <c>index</c>,
+    /// <c>eigenvalue_re</c>, <c>eigenvalue_im</c> and <c>relaxation_time</c> = 1 / |Re lambda|, the
+    /// decay time of the mode's amplitude, <c>inf</c> when |Re lambda| &lt;= <paramref name="zeroTolerance"/>.
+    /// </summary>
+    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<Complex> eigenvalues, string timeUnit, double zeroTolerance = 0)
+    {
+        ArgumentNullException.ThrowIfNull(eigenvalues);
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["index", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        {
+            row.WriteField(k.ToString(CultureInfo.InvariantCulture));
+            row.WriteField(CsvNumber.Format(eigenvalues[k].Real));
+            row.WriteField(CsvNumber.Format(eigenvalues[k].Imaginary));
+            row.WriteField(CsvNumber.Format(RelaxationTime(eigenvalues[k].Real, zeroTolerance)));
+        });
+    }
+
+    /// <summary>
+    /// The steady state beside the equilibrium: columns <c>label</c>, <c>coordinate</c>,
+    /// <c>population</c>, <c>equilibrium</c> = pi_i and <c>ln_equilibrium</c> = ln pi_i. The
+    /// logarithm is written too because pi_i underflows to 0 below about 1e-308 while ln pi_i stays exact.
+    /// </summary>
+    public static void WriteSteadyState(string path, OutputHeader header, IReadOnlyList<string> labels, IReadOnlyList<double> coordinates,
+        IReadOnlyList<double> population, IReadOnlyList<double> logEquilibrium)
+    {
+        WritePerStateTable(path, header, labels,
+        [
+            new CsvColumn("coordinate", coordinates),
+            new CsvColumn("population", population),
+            new CsvColumn("equilibrium", logEquilibrium.Select(Math.Exp).ToArray()),
+            new CsvColumn("ln_equilibrium", logEquilibrium),
+        ]);
+    }
+
+    /// <summary>
+    /// A per-state table of derived quantities (energies, actions, periods, weights...): column
+    /// <c>label</c>, then one per <paramref name="columns"/> entry. Units, where given, go to a
+    /// <c># units: name=unit, ...</c> comment line.
+    /// </summary>
+    public static void WritePerStateTable(string path, OutputHeader header, IReadOnlyList<string> labels, IReadOnlyList<CsvColumn> columns)
+    {
+        ArgumentNullException.ThrowIfNull(labels);
+        WriteColumnTable(path, header, labels, columns);
+    }
+
+    /// <summary>
+    /// A table of numeric columns of equal length (e.g. fit residuals: time, observed, fitted,
+    /// residual), one column per <paramref name="columns"/> entry, units as in <see cref="WritePerStateTable"/>.
+    /// </summary>
+    public static void WriteColumns(string path, OutputHeader header, IReadOnlyList<CsvColumn> columns) =>
+        WriteColumnTable(path, header, null, columns);
+
+    private static void WriteColumnTable(string path, OutputHeader header, IReadOnlyList<string>? labels, IReadOnlyList<CsvColumn> columns)
+    {
+        ArgumentNullException.ThrowIfNull(columns);
+        var rowCount = labels?.Count ?? (columns.Count == 0 ? 0 : columns[0].Values.Count);
+        foreach (var column in columns)
+        {
+            if (column.Values.Count != rowCount)
+            {
+                throw new ArgumentException($"Column '{column.Name}' has {column.Values.Count} values where {rowCount} are expected.", nameof(columns));
+            }
+        }
+        var units = string.Join(", ", columns.Where(c => c.Unit is not null).Select(c => $"{c.Name}={c.Unit}"));
+        var notes = units.Length == 0 ? [] : new[] { KeyValuePair.Create("units", units) };
+        string[] names = labels is null ? [.. columns.Select(c => c.Name)] : ["label", .. columns.Select(c => c.Name)];
+        WriteTable(path, header, notes, names, rowCount, (i, row) =>
+        {
+            if (labels is not null)
+            {
+                row.WriteField(labels[i]);
+            }
+            foreach (var column in columns)
+            {
+                row.WriteField(CsvNumber.Format(column.Values[i]));
+            }
+        });
+    }
+
+    private static double RelaxationTime(double rate, double zeroTolerance) =>
+        Math.Abs(rate) <= zeroTolerance ? double.PositiveInfinity : 1.0 / Math.Abs(rate);
+
+    private static KeyValuePair<string, string>[] SpectrumNotes(string timeUnit, double zeroTolerance) =>
+    [
+        KeyValuePair.Create("eigenvalue_unit", $"1/{timeUnit}"),
+        KeyValuePair.Create("time_unit", timeUnit),
+        KeyValuePair.Create("zero_tolerance", CsvNumber.Format(zeroTolerance)),
+    ];
+
+    private static void RequireRows(Trajectory trajectory, int stateCount, string name)
+    {
+        if (trajectory.Populations.Length != trajectory.Times.Length || trajectory.Populations.Any(p => p.Length != stateCount))
+        {
+            throw new ArgumentException($"Expected {trajectory.Times.Length} rows of {stateCount} populations.", name);
+        }
+    }
+
+    private static void WriteTimeTable(string path, OutputHeader header, IReadOnlyList<string> stateLabels, double[] times, string timeUnit,
+        string quantity, Func<int, int, double> value)
+    {
+        KeyValuePair<string, string>[] notes = [KeyValuePair.Create("time_unit", timeUnit), KeyValuePair.Create("values", quantity)];
+        WriteTable(path, header, notes, ["time", .. stateLabels], times.Length, (k, row) =>
+        {
+            row.WriteField(CsvNumber.Format(times[k]));
+            for (var i = 0; i < stateLabels.Count; i++)
+            {
+                row.WriteField(CsvNumber.Format(value(k, i)));
+            }
+        });
+    }
+
+    private static void WriteTable(string path, OutputHeader header, IEnumerable<KeyValuePair<string, string>> notes,
+        string[] columnNames, int rowCount, Action<int, CsvWriter> writeRow)
+    {
+        ArgumentNullException.ThrowIfNull(header);
+        AtomicFile.Write(path, writer =>
+        {
+            header.WriteTo(writer, notes);
+            using var csv = CsvWriter.Create(writer, _writerOptions, leaveOpen: true);
+            csv.WriteRecord(columnNames);
+            for (var row = 0; row < rowCount; row++)
+            {
+                writeRow(row, csv);
+                csv.EndRecord();
+            }
+            csv.Flush();
+        });
+    }
+}
