@@ -133,7 +133,7 @@ public static class DetailedBalance
                     }
                 }
 
-                var violation = -double.ExpM1(-Math.Abs(flowToI - flowToJ));
+                var violation = Math.Abs(double.ExpM1(-Math.Abs(flowToI - flowToJ)));
                 if (worstPair is null || violation > worst)
                 {
                     worst = violation;

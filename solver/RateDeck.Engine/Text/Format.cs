@@ -9,7 +9,12 @@ public static class Format
     public static string Number(double value)
     {
         var magnitude = Math.Abs(value);
-        if (!double.IsFinite(value) || magnitude == 0)
+        if (magnitude == 0)
+        {
+            return "0";
+        }
+
+        if (!double.IsFinite(value))
         {
             return value.ToString(CultureInfo.InvariantCulture);
         }

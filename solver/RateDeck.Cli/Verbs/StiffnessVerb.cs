@@ -1,0 +1,106 @@
+using RateDeck.Cli.CommandLine;
+using RateDeck.Decks;
+using RateDeck.Diagnostics;
+using RateDeck.Outputs;
+using RateDeck.Text;
+
+namespace RateDeck.Cli.Verbs;
+
+/// <summary>
+/// <c>ratedeck stiffness DECK [--dt X]</c>: the spectral radius, the stiffness ratio and every
+/// explicit step limit, with a plain recommendation. With a step it says whether the step is safe
+/// for each explicit method and exits 3 when it is not safe for the deck's method.
+/// </summary>
+public sealed class StiffnessVerb : IVerb
+{
+    /// <inheritdoc />
+    public VerbSyntax Syntax { get; } = new("stiffness", "spectral radius, stiffness ratio and explicit time-step limits, with a recommendation",
+    [
+        new("--dt", "X", "judge this explicit time step (exit 3 when unsafe for the method)"),
+        new("--t-end", "T", "count steps to this time (default: the deck's run.t_end)"),
+        new("--method", "euler|rk4", "the explicit method the step is judged for (default: the deck's run.explicit)"),
+    ]);
+
+    /// <inheritdoc />
+    public int Execute(ParsedArguments args, VerbContext context)
+    {
+        var method = VerbSupport.Method(args);
+        var loaded = VerbSupport.Load(args, context);
+        var dt = args.PositiveNumber("--dt");
+        var endTime = args.PositiveNumber("--t-end") ?? loaded.Deck.Run.EndTime;
+        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
+        var report = StepLimits.Analyze(spectrum, loaded.Rates, endTime, dt);
+        var chosen = method ?? loaded.Deck.Run.Method;
+        var safe = dt is null || (chosen == ExplicitMethod.Euler ? report.EulerSafe : report.Rk4Safe) == true;
+
+        if (args.Has("--json"))
+        {
+            JsonSummary.Write(context.Out, new
+            {
+                tool_version = ToolInfo.Version,
+                deck = loaded.Deck.SourcePath,
+                deck_sha256 = loaded.Deck.Sha256,
+                overrides = loaded.Deck.Overrides,
+                linear_algebra = loaded.Algebra.Name,
+                states = loaded.States.Count,
+                spectral_radius = report.SpectralRadius,
+                slowest_rate = report.SlowestRate,
+                stiffness_ratio = report.StiffnessRatio,
+                max_diagonal_rate = report.MaxDiagonalRate,
+                dt_euler_stable = report.EulerStable.MaxStep,
+                dt_positive = report.Positivity.MaxStep,
+                dt_rule_of_thumb = report.RuleOfThumb.MaxStep,
+                dt_rk4_stable = report.Rk4Stable.MaxStep,
+                horizon = report.Horizon,
+                steps = report.Limits.ToDictionary(l => l.Name.Replace('-', '_'), l => l.Steps),
+                dt = report.Dt,
+                method = VerbSupport.MethodName(chosen),
+                euler_safe = report.EulerSafe,
+                rk4_safe = report.Rk4Safe,
+                positivity_preserving = report.PositivityPreserving,
+                dt_safe = dt is null ? (bool?)null : safe,
+                recommendation = report.Recommendation,
+            });
+            context.Out.WriteLine();
+        }
+        else
+        {
+            WriteSummary(context.Out, loaded, spectrum, report, chosen);
+        }
+
+        return safe ? ExitCodes.Success : ExitCodes.UnsafeTimeStep;
+    }
+
+    private static void WriteSummary(TextWriter output, Pipeline.LoadedDeck loaded, Spectrum spectrum, StiffnessReport report, ExplicitMethod chosen)
+    {
+        VerbSupport.WriteDeckLine(output, loaded);
+        output.WriteLine($"spectrum     {spectrum.PathReason}");
+        output.WriteLine();
+        output.WriteLine($"  spectral radius rho      {Format.Number(report.SpectralRadius)}");
+        output.WriteLine($"  slowest non-zero rate    {Optional(report.SlowestRate)}");
+        output.WriteLine($"  stiffness ratio          {Optional(report.StiffnessRatio)}");
+        output.WriteLine($"  max |K_ii|               {Format.Number(report.MaxDiagonalRate)}");
+        output.WriteLine();
+        var horizon = report.Horizon is { } h ? $"steps to t = {Format.Number(h)}{(report.HorizonIsEndTime ? "" : " (1/slowest rate)")}" : "steps";
+        output.WriteLine($"  {"limit",-16} {"largest dt",-12} {horizon}");
+        foreach (var limit in report.Limits)
+        {
+            output.WriteLine($"  {limit.Name,-16} {Format.Number(limit.MaxStep),-12} {Optional(limit.Steps),-12} {limit.Basis}");
+        }
+
+        if (report.Dt is { } dt)
+        {
+            output.WriteLine();
+            output.WriteLine($"  dt = {Format.Number(dt)}: euler {Verdict(report.EulerSafe)}, rk4 {Verdict(report.Rk4Safe)}, positivity {(report.PositivityPreserving == true ? "kept" : "NOT kept")} (forward Euler)");
+            var verdict = (chosen == ExplicitMethod.Euler ? report.EulerSafe : report.Rk4Safe) == true ? "safe" : "UNSAFE";
+            output.WriteLine($"  for the deck's method ({VerbSupport.MethodName(chosen)}) the step is {verdict}");
+        }
+
+        output.WriteLine();
+        output.WriteLine($"recommendation: {report.Recommendation}");
+    }
+
+    private static string Optional(double? value) => value is { } v ? Format.Number(v) : "-";
+
+    private static string Verdict(bool? safe) => safe == true ? "stable" : "UNSTABLE";
+}

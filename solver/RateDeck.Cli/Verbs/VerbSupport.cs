@@ -1,0 +1,46 @@
+using RateDeck.Cli.CommandLine;
+using RateDeck.Decks;
+using RateDeck.LinearAlgebra;
+using RateDeck.Pipeline;
+
+namespace RateDeck.Cli.Verbs;
+
+/// <summary>What the verbs share: loading a deck with the chosen provider, and the deck line of a summary.</summary>
+internal static class VerbSupport
+{
+    /// <summary>Loads the deck named on the command line through the pipeline with the provider asked for.</summary>
+    public static LoadedDeck Load(ParsedArguments args, VerbContext context)
+    {
+        _ = context;
+        var algebra = LinearAlgebraProviders.Default;
+        return DeckPipeline.Load(args.DeckPath, args.Overrides, algebra);
+    }
+
+    /// <summary>The first lines of every summary: which deck, how many states, which provider.</summary>
+    public static void WriteDeckLine(TextWriter output, LoadedDeck loaded)
+    {
+        var deck = loaded.Deck;
+        output.WriteLine($"deck         {deck.SourcePath}  \"{deck.Title}\"  sha256 {deck.Sha256[..12]}");
+        if (deck.Overrides.Count > 0)
+        {
+            output.WriteLine($"overrides    {string.Join(" ", deck.Overrides)}");
+        }
+
+        output.WriteLine($"states       {loaded.States.Count} ({StateRange(loaded.States.Labels)})   linear algebra: {loaded.Algebra.Name}");
+    }
+
+    private static string StateRange(string[] labels) =>
+        labels.Length <= 4 ? string.Join(", ", labels) : $"{labels[0]} .. {labels[^1]}";
+
+    /// <summary>The explicit method asked for with <c>--method</c>, or null to use the deck's.</summary>
+    public static ExplicitMethod? Method(ParsedArguments args) => args.Value("--method") switch
+    {
+        null => null,
+        "euler" => ExplicitMethod.Euler,
+        "rk4" => ExplicitMethod.RungeKutta4,
+        var other => throw new UsageException($"--method takes euler or rk4, not '{other}'"),
+    };
+
+    /// <summary>The command-line name of an explicit method.</summary>
+    public static string MethodName(ExplicitMethod method) => method == ExplicitMethod.Euler ? "euler" : "rk4";
+}
