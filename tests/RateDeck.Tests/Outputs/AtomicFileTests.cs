@@ -1,3 +1,4 @@
+using RateDeck.Tests.Support;
 using System.Text;
 using RateDeck.Outputs;
 using Xunit;

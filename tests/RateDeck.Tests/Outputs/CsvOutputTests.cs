@@ -1,3 +1,4 @@
+using RateDeck.Tests.Support;
 using System.Numerics;
 using System.Text.Json;
 using CsvHelper;

@@ -1,3 +1,4 @@
+using RateDeck.Tests.Support;
 using System.Buffers.Binary;
 using RateDeck.Outputs;
 using Xunit;
