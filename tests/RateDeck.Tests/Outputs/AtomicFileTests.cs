@@ -1,6 +1,6 @@
-using RateDeck.Tests.Support;
 using System.Text;
 using RateDeck.Outputs;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Outputs;

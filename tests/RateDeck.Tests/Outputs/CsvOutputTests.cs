@@ -1,9 +1,9 @@
-using RateDeck.Tests.Support;
 using System.Numerics;
 using System.Text.Json;
 using CsvHelper;
 using RateDeck.Outputs;
 using RateDeck.Propagation;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Outputs;

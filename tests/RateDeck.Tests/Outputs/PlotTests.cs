@@ -1,6 +1,6 @@
-using RateDeck.Tests.Support;
 using System.Buffers.Binary;
 using RateDeck.Outputs;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Outputs;
