@@ -1,0 +1,64 @@
+using System.Globalization;
+using RateDeck.LinearAlgebra;
+using RateDeck.Rates;
+
+namespace RateDeck.Propagation;
+
+/// <summary>
+/// Picks the exact propagator for a rate matrix and says why (SPEC 2): the symmetric
+/// eigen-decomposition when detailed balance holds, else the general eigen-decomposition while
+/// its eigenvector matrix is well conditioned, else the Pade matrix exponential.
+/// </summary>
+public static class ExactPropagatorChoice
+{
+    /// <summary>Detailed balance counts as holding below this relative violation.</summary>
+    public const double DetailedBalanceThreshold = 1e-10;
+
+    /// <summary>
+    /// The general eigen path is taken while ||V||_1 ||V^-1||_1 is below this: its rounding is
+    /// about the condition times eps, so 1e8 still leaves about 1e-8 of the total population.
+    /// </summary>
+    public const double ConditionThreshold = 1e8;
+
+    /// <summary>
+    /// The propagator for <paramref name="rates"/>. <paramref name="detailedBalanceViolation"/> is
+    /// the relative violation reported by the diagnostics (the worst Kolmogorov cycle); it is
+    /// ignored when the matrix was completed by detailed balance. NaN counts as violated.
+    /// The returned <see cref="IPropagator.Reason"/> names the path and the numbers behind it.
+    /// </summary>
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation)
+    {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(la);
+        if (rates.Origin == BalanceOrigin.CompletedByDetailedBalance)
+        {
+            return new SymmetricEigenPropagator(rates, la)
+            {
+                Reason = "symmetric eigen-decomposition: detailed balance holds by construction (one direction completed from the other)",
+            };
+        }
+
+        if (detailedBalanceViolation < DetailedBalanceThreshold)
+        {
+            return new SymmetricEigenPropagator(rates, la)
+            {
+                Reason = Format($"symmetric eigen-decomposition: detailed balance holds (relative violation {detailedBalanceViolation:G3} < {DetailedBalanceThreshold:G3})"),
+            };
+        }
+
+        var violation = Format($"no detailed balance (relative violation {detailedBalanceViolation:G3} >= {DetailedBalanceThreshold:G3})");
+        var general = new GeneralEigenPropagator(rates, la);
+        if (general.EigenvectorCondition < ConditionThreshold)
+        {
+            general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {general.EigenvectorCondition:G3} < {ConditionThreshold:G3}");
+            return general;
+        }
+
+        return new PadeExponentialPropagator(rates)
+        {
+            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (nearly defective)"),
+        };
+    }
+
+    private static string Format(FormattableString text) => text.ToString(CultureInfo.InvariantCulture);
+}
