@@ -6,8 +6,10 @@ namespace RateDeck.Propagation;
 
 /// <summary>
 /// Picks the exact propagator for a rate matrix and says why (SPEC 2): the symmetric
-/// eigen-decomposition when detailed balance holds, else the general eigen-decomposition while
-/// its eigenvector matrix is well conditioned, else the Pade matrix exponential.
+/// eigen-decomposition when detailed balance holds and its rounding is harmless for the start
+/// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
+/// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
+/// exponential.
 /// </summary>
 public static class ExactPropagatorChoice
 {
@@ -24,25 +26,35 @@ public static class ExactPropagatorChoice
     /// The propagator for <paramref name="rates"/>. <paramref name="detailedBalanceViolation"/> is
     /// the relative violation reported by the diagnostics (the worst Kolmogorov cycle); it is
     /// ignored when the matrix was completed by detailed balance. NaN counts as violated.
+    /// Pass <paramref name="initial"/> (P(0)) when known: under detailed balance the symmetric
+    /// path is then kept unless its rounding for this start would exceed
+    /// <see cref="SymmetricEigenPropagator.RelativeErrorLimit"/>; without it the worst start (all
+    /// population in the least probable state) is assumed, so that the choice is safe for any.
     /// The returned <see cref="IPropagator.Reason"/> names the path and the numbers behind it.
     /// </summary>
-    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation)
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null)
     {
         ArgumentNullException.ThrowIfNull(rates);
         ArgumentNullException.ThrowIfNull(la);
-        if (rates.Origin == BalanceOrigin.CompletedByDetailedBalance)
+        var balance = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
+            ? "detailed balance holds by construction (one direction completed from the other)"
+            : detailedBalanceViolation < DetailedBalanceThreshold
+                ? Format($"detailed balance holds (relative violation {detailedBalanceViolation:G3} < {DetailedBalanceThreshold:G3})")
+                : null;
+        if (balance is not null)
         {
-            return new SymmetricEigenPropagator(rates, la)
+            var symmetric = new SymmetricEigenPropagator(rates, la);
+            var estimate = initial is null ? symmetric.WorstCaseRelativeError : symmetric.RelativeErrorEstimate(initial);
+            var start = initial is null ? "the worst initial state" : "this initial state";
+            if (estimate <= SymmetricEigenPropagator.RelativeErrorLimit)
             {
-                Reason = "symmetric eigen-decomposition: detailed balance holds by construction (one direction completed from the other)",
-            };
-        }
+                symmetric.Reason = $"symmetric eigen-decomposition: {balance}";
+                return symmetric;
+            }
 
-        if (detailedBalanceViolation < DetailedBalanceThreshold)
-        {
-            return new SymmetricEigenPropagator(rates, la)
+            return new PadeExponentialPropagator(rates)
             {
-                Reason = Format($"symmetric eigen-decomposition: detailed balance holds (relative violation {detailedBalanceViolation:G3} < {DetailedBalanceThreshold:G3})"),
+                Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
             };
         }
 
