@@ -36,27 +36,14 @@ public class ClosedFormTests
     [Fact]
     public void DrivenTwoState_MatchesClosedFormTransientAndSteadyState()
     {
-        // Pump s into state 1, transfer kf (1 -> 2) and kb (2 -> 1), loss g from state 2:
-        //   dP1/dt = -kf P1 + kb P2 + s,   dP2/dt = kf P1 - (kb + g) P2.
-        // Steady state (derived by hand): the second equation gives P2 = kf P1 / (kb + g); the
-        // first then gives kf g P1 / (kb + g) = s, so P1* = s (kb + g) / (kf g) and P2* = s / g
-        // (outflow g P2* balances the pump). Transient: P(t) = P* + exp(K t) (P(0) - P*), with
-        // K = [[-kf, kb], [kf, -(kb + g)]], trace -(kf + kb + g), determinant kf g, real distinct
-        // eigenvalues l+- = (tr +- sqrt(tr^2 - 4 det)) / 2, and for a 2x2 matrix with distinct
-        // eigenvalues Sylvester's formula exp(K t) = [e^(l+ t) (K - l- I) - e^(l- t) (K - l+ I)] / (l+ - l-)
-        // (Moler and Van Loan, SIAM Review 45 (2003) 3, the interpolation methods).
-        const double kf = 0.8, kb = 0.5, g = 0.3, s = 0.2;
-        var rates = TestRates.Completed([Math.Log(kb), Math.Log(kf)], (_, _) => kb, loss: [0, g], pumping: [s, 0]);
+        // Closed form derived by hand in DrivenTwoStateSolution (steady state and Sylvester's formula).
+        var solution = new DrivenTwoStateSolution(Kf: 0.8, Kb: 0.5, Loss: 0.3, Pumping: 0.2);
+        var rates = TestRates.Completed(
+            [Math.Log(solution.Kb), Math.Log(solution.Kf)], (_, _) => solution.Kb, loss: [0, solution.Loss], pumping: [solution.Pumping, 0]);
         double[] initial = [0.1, 0.4];
-        double[] steady = [s * (kb + g) / (kf * g), s / g];
-        const double trace = -(kf + kb + g), determinant = kf * g;
-        var root = Math.Sqrt((trace * trace) - (4 * determinant));
-        var (plus, minus) = ((trace + root) / 2, (trace - root) / 2);
-        double[,] k = { { -kf, kb }, { kf, -(kb + g) } };
         double[] times = [0.0, 0.25, 1.0, 3.0, 10.0, 400.0];
 
-        var la = new ManagedLinearAlgebra();
-        var chosen = ExactPropagatorChoice.Choose(rates, la, double.NaN);
+        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), double.NaN, initial);
         Assert.Equal("symmetric-eigen", chosen.Name);
         foreach (var propagator in TestRates.ExactPaths(rates).Append(chosen).Append(new RungeKutta4Propagator(rates, 1e-3)))
         {
@@ -64,26 +51,18 @@ public class ClosedFormTests
             var trajectory = propagator.Propagate(initial, times);
             for (var n = 0; n < times.Length; n++)
             {
-                var (ep, em) = (Math.Exp(plus * times[n]), Math.Exp(minus * times[n]));
+                var expected = solution.At(initial, times[n]);
                 for (var i = 0; i < 2; i++)
                 {
-                    var expected = steady[i];
-                    for (var j = 0; j < 2; j++)
-                    {
-                        var delta = i == j ? 1.0 : 0.0;
-                        var exponential = ((ep * (k[i, j] - (minus * delta))) - (em * (k[i, j] - (plus * delta)))) / (plus - minus);
-                        expected += exponential * (initial[j] - steady[j]);
-                    }
-
                     Assert.True(
-                        Math.Abs(trajectory.Populations[n][i] - expected) <= tolerance * Math.Max(1, expected),
-                        $"{propagator.Name} state {i} at t = {times[n]}: {trajectory.Populations[n][i]} vs {expected}");
+                        Math.Abs(trajectory.Populations[n][i] - expected[i]) <= tolerance * Math.Max(1, expected[i]),
+                        $"{propagator.Name} state {i} at t = {times[n]}: {trajectory.Populations[n][i]} vs {expected[i]}");
                 }
             }
 
             // At 400 the slowest mode has decayed by exp(400 l+) < 1e-13: the steady state itself.
-            Assert.Equal(steady[0], trajectory.Populations[^1][0], 10);
-            Assert.Equal(steady[1], trajectory.Populations[^1][1], 10);
+            Assert.Equal(solution.SteadyState[0], trajectory.Populations[^1][0], 10);
+            Assert.Equal(solution.SteadyState[1], trajectory.Populations[^1][1], 10);
         }
     }
 
