@@ -52,7 +52,7 @@ public static class ExactPropagatorChoice
                 return symmetric;
             }
 
-            return new PadeExponentialPropagator(rates)
+            return new PadeExponentialPropagator(rates, la)
             {
                 Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
             };
@@ -66,7 +66,7 @@ public static class ExactPropagatorChoice
             return general;
         }
 
-        return new PadeExponentialPropagator(rates)
+        return new PadeExponentialPropagator(rates, la)
         {
             Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (nearly defective)"),
         };

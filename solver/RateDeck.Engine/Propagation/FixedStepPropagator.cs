@@ -13,8 +13,8 @@ namespace RateDeck.Propagation;
 /// </summary>
 public abstract class FixedStepPropagator : IPropagator
 {
-    private const double StepCountSlack = 1e-9;
-    private const double MaxStepsPerOutput = 1e15;
+    private const double _stepCountSlack = 1e-9;
+    private const double _maxStepsPerOutput = 1e15;
     private readonly double[] _generator;
     private readonly double[] _pumping;
 
@@ -75,8 +75,8 @@ public abstract class FixedStepPropagator : IPropagator
             var span = target - t;
             if (span > 0)
             {
-                var stepCount = Math.Ceiling(span / TimeStep - StepCountSlack);
-                if (stepCount > MaxStepsPerOutput)
+                var stepCount = Math.Ceiling(span / TimeStep - _stepCountSlack);
+                if (stepCount > _maxStepsPerOutput)
                 {
                     throw new ArgumentException("the time step is too small for the output times (more than 1e15 steps)", nameof(times));
                 }

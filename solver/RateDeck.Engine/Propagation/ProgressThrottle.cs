@@ -6,33 +6,33 @@ namespace RateDeck.Propagation;
 /// </summary>
 internal sealed class ProgressThrottle
 {
-    private const int Reports = 100;
+    private const int _reports = 100;
     private readonly IProgress<double>? _progress;
     private int _nextPercent = 1;
 
     /// <summary>Wraps <paramref name="progress"/>, which may be null (nothing is reported).</summary>
     public ProgressThrottle(IProgress<double>? progress) => _progress = progress;
 
-    /// <summary>Reports <paramref name="fraction"/> if it reached the next whole percent.</summary>
+    /// <summary>_reports <paramref name="fraction"/> if it reached the next whole percent.</summary>
     public void Report(double fraction)
     {
-        if (_progress is null || _nextPercent > Reports || fraction * Reports < _nextPercent)
+        if (_progress is null || _nextPercent > _reports || fraction * _reports < _nextPercent)
         {
             return;
         }
 
         var clamped = Math.Min(fraction, 1.0);
         _progress.Report(clamped);
-        _nextPercent = Math.Max(_nextPercent + 1, (int)Math.Floor(clamped * Reports) + 1);
+        _nextPercent = Math.Max(_nextPercent + 1, (int)Math.Floor(clamped * _reports) + 1);
     }
 
-    /// <summary>Reports 1 unless it was already reported.</summary>
+    /// <summary>_reports 1 unless it was already reported.</summary>
     public void Complete()
     {
-        if (_progress is not null && _nextPercent <= Reports)
+        if (_progress is not null && _nextPercent <= _reports)
         {
             _progress.Report(1.0);
-            _nextPercent = Reports + 1;
+            _nextPercent = _reports + 1;
         }
     }
 }

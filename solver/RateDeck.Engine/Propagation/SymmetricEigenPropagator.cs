@@ -39,7 +39,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
     /// <summary>Largest <see cref="RelativeErrorEstimate"/> that <see cref="Propagate"/> accepts.</summary>
     public const double RelativeErrorLimit = 1e-9;
 
-    private const int TimesPerBlock = 32;
+    private const int _timesPerBlock = 32;
     private readonly ILinearAlgebra _la;
     private readonly double[] _halfLogPi;
     private readonly double[] _values;
@@ -132,9 +132,9 @@ public sealed class SymmetricEigenPropagator : IPropagator
         var columnsPerTime = _pumping is null ? 1 : 2;
         var populations = new double[times.Count][];
         var throttle = new ProgressThrottle(progress);
-        for (var first = 0; first < times.Count; first += TimesPerBlock)
+        for (var first = 0; first < times.Count; first += _timesPerBlock)
         {
-            var count = Math.Min(TimesPerBlock, times.Count - first);
+            var count = Math.Min(_timesPerBlock, times.Count - first);
             var modes = DenseMatrix.Create(n, count * columnsPerTime, 0.0);
             var z = modes.Values;
             for (var k = 0; k < count; k++)
