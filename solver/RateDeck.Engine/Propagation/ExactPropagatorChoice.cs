@@ -68,7 +68,7 @@ public static class ExactPropagatorChoice
 
         return new PadeExponentialPropagator(rates, la)
         {
-            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (nearly defective)"),
+            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (eigenvectors nearly dependent)"),
         };
     }
 

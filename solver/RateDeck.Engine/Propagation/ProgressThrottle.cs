@@ -6,33 +6,33 @@ namespace RateDeck.Propagation;
 /// </summary>
 internal sealed class ProgressThrottle
 {
-    private const int _reports = 100;
+    private const int _maxReports = 100;
     private readonly IProgress<double>? _progress;
     private int _nextPercent = 1;
 
     /// <summary>Wraps <paramref name="progress"/>, which may be null (nothing is reported).</summary>
     public ProgressThrottle(IProgress<double>? progress) => _progress = progress;
 
-    /// <summary>_reports <paramref name="fraction"/> if it reached the next whole percent.</summary>
+    /// <summary>Reports <paramref name="fraction"/> if it reached the next whole percent.</summary>
     public void Report(double fraction)
     {
-        if (_progress is null || _nextPercent > _reports || fraction * _reports < _nextPercent)
+        if (_progress is null || _nextPercent > _maxReports || fraction * _maxReports < _nextPercent)
         {
             return;
         }
 
         var clamped = Math.Min(fraction, 1.0);
         _progress.Report(clamped);
-        _nextPercent = Math.Max(_nextPercent + 1, (int)Math.Floor(clamped * _reports) + 1);
+        _nextPercent = Math.Max(_nextPercent + 1, (int)Math.Floor(clamped * _maxReports) + 1);
     }
 
-    /// <summary>_reports 1 unless it was already reported.</summary>
+    /// <summary>Reports 1 unless it was already reported.</summary>
     public void Complete()
     {
-        if (_progress is not null && _nextPercent <= _reports)
+        if (_progress is not null && _nextPercent <= _maxReports)
         {
             _progress.Report(1.0);
-            _nextPercent = _reports + 1;
+            _nextPercent = _maxReports + 1;
         }
     }
 }
