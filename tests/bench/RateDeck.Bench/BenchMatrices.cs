@@ -10,7 +10,7 @@ namespace RateDeck.Bench;
 /// </summary>
 public static class BenchMatrices
 {
-    private const ulong Golden = 0x9E3779B97F4A7C15;
+    private const ulong _golden = 0x9E3779B97F4A7C15;
 
     /// <summary>The symmetric benchmark matrix of order n.</summary>
     public static DenseMatrix RandomSymmetric(int n, ulong seed = 1)
@@ -32,7 +32,7 @@ public static class BenchMatrices
     /// <summary>The splitmix64 output for counter <paramref name="key"/>, mapped to [0, 1) with 53 bits.</summary>
     private static double Uniform(ulong seed, ulong key)
     {
-        var z = unchecked(seed + (key + 1) * Golden);
+        var z = unchecked(seed + (key + 1) * _golden);
         z = unchecked((z ^ (z >> 30)) * 0xBF58476D1CE4E5B9);
         z = unchecked((z ^ (z >> 27)) * 0x94D049BB133111EB);
         z ^= z >> 31;
