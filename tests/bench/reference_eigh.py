@@ -8,7 +8,8 @@ ratios on one machine.
 Matrix rule (repeated from tests/bench/RateDeck.Bench/BenchMatrices.cs, bit for bit): entry (i, j),
 0-based, i >= j, is 2 u - 1 with u = (splitmix64(seed + (i n + j + 1) * 0x9E3779B97F4A7C15) >> 11) * 2^-53,
 mirrored above the diagonal; seed 1. The extreme eigenvalues are printed to check the match.
-Timing: one warm-up run, then the median of the timed runs (wall clock, time.perf_counter).
+Timing: one warm-up run of each method, then timed runs round-robin over the methods (wall clock,
+time.perf_counter); median, min and max are printed.
 """
 import argparse
 import os
@@ -44,14 +45,16 @@ METHODS = {
 }
 
 
-def measure(work, runs):
-    result = work()  # warm-up
-    seconds = []
+def measure(contenders, runs):
+    """One warm-up each, then timed runs round-robin over the contenders (as the C# bench does)."""
+    results = [work() for work in contenders]
+    seconds = [[] for _ in contenders]
     for _ in range(runs):
-        start = time.perf_counter()
-        result = work()
-        seconds.append(time.perf_counter() - start)
-    return seconds, result
+        for k, work in enumerate(contenders):
+            start = time.perf_counter()
+            results[k] = work()
+            seconds[k].append(time.perf_counter() - start)
+    return seconds, results
 
 
 def main():
@@ -62,14 +65,14 @@ def main():
 
     print(f"numpy {numpy.__version__}, scipy {scipy.__version__}; "
           f"OPENBLAS_NUM_THREADS={os.environ.get('OPENBLAS_NUM_THREADS', '(unset)')}; {os.cpu_count()} logical processors")
-    print(f"timing: 1 warm-up, median of {args.runs} runs, seconds")
+    print(f"timing: 1 warm-up each, then {args.runs} runs round-robin over the methods; seconds")
     print()
     print(f"{'N':>6}  {'method':<15}  {'median s':>10}  {'min s':>10}  {'max s':>10}  {'lambda_min':>18}  {'lambda_max':>18}")
     for n in (int(s) for s in args.sizes.split(",")):
         a = random_symmetric(n)
-        for name, method in METHODS.items():
-            seconds, (values, _) = measure(lambda: method(a), args.runs)
-            print(f"{n:>6}  {name:<15}  {statistics.median(seconds):>10.3f}  {min(seconds):>10.3f}  {max(seconds):>10.3f}  "
+        seconds, results = measure([lambda m=m: m(a) for m in METHODS.values()], args.runs)
+        for name, times, (values, _) in zip(METHODS, seconds, results):
+            print(f"{n:>6}  {name:<15}  {statistics.median(times):>10.3f}  {min(times):>10.3f}  {max(times):>10.3f}  "
                   f"{values[0]!r:>18}  {values[-1]!r:>18}")
 
 

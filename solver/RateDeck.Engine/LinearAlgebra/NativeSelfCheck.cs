@@ -45,7 +45,7 @@ internal static class NativeSelfCheck
         var tridiagonal = DenseMatrix.OfArray(new double[,] { { 2, -1, 0 }, { -1, 2, -1 }, { 0, -1, 2 } });
         if (!Near(provider.SymmetricEigen(tridiagonal).Values, [2 - Math.Sqrt(2), 2, 2 + Math.Sqrt(2)]))
         {
-            return "dsyevd_ gave wrong eigenvalues of a 3 x 3 tridiagonal matrix";
+            return "the symmetric eigensolver (dsyevd_ or dsyevr_) gave wrong eigenvalues of a 3 x 3 tridiagonal matrix";
         }
 
         // A quarter-turn rotation [0 -1; 1 0] has eigenvalues -i, +i.

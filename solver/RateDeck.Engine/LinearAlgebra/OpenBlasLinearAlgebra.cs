@@ -45,7 +45,7 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
 
     /// <summary>
     /// The system's native provider: the first of libopenblas.so.0, libopenblas.so, liblapack.so.3
-    /// (with libblas.so.3) that loads, exports every routine and passes <see cref="NativeSelfCheck"/>.
+    /// (with libblas.so.3) that loads, exports every routine and passes <see cref="NativeSelfCheck"/> with both symmetric drivers.
     /// Loaded once per process. On failure <paramref name="reason"/> says why, in plain words.
     /// </summary>
     public static bool TryLoadSystem([NotNullWhen(true)] out OpenBlasLinearAlgebra? provider, out string reason)
@@ -66,7 +66,7 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
         }
 
         var provider = new OpenBlasLinearAlgebra(load.Imports, SymmetricEigenDriver.DivideAndConquer);
-        var failure = NativeSelfCheck.Run(provider);
+        var failure = NativeSelfCheck.Run(provider) ?? NativeSelfCheck.Run(provider.WithSymmetricDriver(SymmetricEigenDriver.RelativelyRobust));
         if (failure is not null)
         {
             return (null, $"native library {load.Imports.Library.DisplayName} failed the self-check: {failure}");

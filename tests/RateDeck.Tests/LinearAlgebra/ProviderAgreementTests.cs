@@ -115,4 +115,22 @@ public class ProviderAgreementTests
         Assert.Equal(copies[2], right);
         Assert.Equal(xCopy, x);
     }
+
+    /// <summary>
+    /// Sweeps may call the provider from several threads at once; the OpenBLAS build must then give the
+    /// answers of sequential calls, to 1e-12 of the spectral radius (not bit for bit: the library may split
+    /// the work among its threads differently when called from several threads).
+    /// </summary>
+    [NativeFact]
+    public void ConcurrentCalls_GiveTheSequentialAnswers()
+    {
+        var matrices = Enumerable.Range(0, 4).Select(seed => RandomSymmetric(150, seed)).ToArray();
+        var sequential = matrices.Select(m => NativeLapack.Required.SymmetricEigen(m).Values).ToArray();
+        var concurrent = matrices.AsParallel().AsOrdered().WithDegreeOfParallelism(4)
+            .Select(m => NativeLapack.Required.SymmetricEigen(m).Values).ToArray();
+        for (var i = 0; i < matrices.Length; i++)
+        {
+            AssertClose(sequential[i], concurrent[i], 1e-12 * SpectralRadius(sequential[i]), $"matrix {i} eigenvalues");
+        }
+    }
 }

@@ -2,23 +2,34 @@ using System.Diagnostics;
 
 namespace RateDeck.Bench;
 
-/// <summary>Wall-clock timing: warm-up runs first (JIT, library initialisation, caches), then the median of the timed runs.</summary>
+/// <summary>
+/// Wall-clock timing: warm-up runs first (JIT, library initialisation, caches), then timed runs taken
+/// round-robin over the contenders, so that a change of machine load during the measurement falls on
+/// all of them alike. Report the median; on a busy machine the minimum is the better estimate of the
+/// undisturbed time.
+/// </summary>
 public static class Timing
 {
-    /// <summary>Seconds of each timed run of <paramref name="work"/>, after <paramref name="warmups"/> untimed runs.</summary>
-    public static double[] Measure(Action work, int warmups, int runs)
+    /// <summary>Seconds of each timed run, per contender, after <paramref name="warmups"/> untimed runs of each.</summary>
+    public static double[][] Measure(IReadOnlyList<Action> contenders, int warmups, int runs)
     {
-        for (var i = 0; i < warmups; i++)
+        foreach (var work in contenders)
         {
-            work();
+            for (var i = 0; i < warmups; i++)
+            {
+                work();
+            }
         }
 
-        var seconds = new double[runs];
-        for (var i = 0; i < runs; i++)
+        var seconds = contenders.Select(_ => new double[runs]).ToArray();
+        for (var run = 0; run < runs; run++)
         {
-            var clock = Stopwatch.StartNew();
-            work();
-            seconds[i] = clock.Elapsed.TotalSeconds;
+            for (var c = 0; c < contenders.Count; c++)
+            {
+                var clock = Stopwatch.StartNew();
+                contenders[c]();
+                seconds[c][run] = clock.Elapsed.TotalSeconds;
+            }
         }
 
         return seconds;
