@@ -26,8 +26,8 @@ internal static class Fortran
 /// The plain Fortran LAPACK/BLAS symbols, loaded at run time and called through unmanaged function pointers.
 /// <para>
 /// Calling convention (the reference Fortran ABI that gfortran and OpenBLAS export): every argument
-/// by reference, 32-bit integers (LP64; Debian's libopenblas0 and liblapack3 are LP64, the 64-bit
-/// integer builds carry a "64_" suffix and are not tried), matrices column-major. Each CHARACTER
+/// by reference, 32-bit integers (LP64: Debian's libopenblas0 and liblapack3; the 64-bit-integer
+/// builds are other files and are not tried), matrices column-major. Each CHARACTER
 /// argument adds a hidden length argument at the end of the list, passed by value; gfortran 8 and
 /// later declare it size_t, so it is passed as <see cref="nint"/> 1. A callee that does not read
 /// the hidden lengths ignores them harmlessly under the x86-64 and AArch64 C calling conventions.
