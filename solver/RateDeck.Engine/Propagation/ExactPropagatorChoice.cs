@@ -1,4 +1,5 @@
 using System.Globalization;
+using RateDeck.Diagnostics;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
 
@@ -31,8 +32,11 @@ public static class ExactPropagatorChoice
     /// <see cref="SymmetricEigenPropagator.RelativeErrorLimit"/>; without it the worst start (all
     /// population in the least probable state) is assumed, so that the choice is safe for any.
     /// The returned <see cref="IPropagator.Reason"/> names the path and the numbers behind it.
+    /// Pass <paramref name="spectrum"/> (the diagnostics' <see cref="Spectrum"/> of the same matrix)
+    /// to reuse its decomposition instead of computing a second one: its symmetric decomposition
+    /// on the symmetric path, its general one on the general path.
     /// </summary>
-    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null)
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null, Spectrum? spectrum = null)
     {
         ArgumentNullException.ThrowIfNull(rates);
         ArgumentNullException.ThrowIfNull(la);
@@ -43,7 +47,9 @@ public static class ExactPropagatorChoice
                 : null;
         if (balance is not null)
         {
-            var symmetric = new SymmetricEigenPropagator(rates, la);
+            var symmetric = spectrum?.Symmetric is { } decomposition
+                ? new SymmetricEigenPropagator(rates, decomposition, la)
+                : new SymmetricEigenPropagator(rates, la);
             var estimate = initial is null ? symmetric.WorstCaseRelativeError : symmetric.RelativeErrorEstimate(initial);
             var start = initial is null ? "the worst initial state" : "this initial state";
             if (estimate <= SymmetricEigenPropagator.RelativeErrorLimit)
@@ -59,7 +65,9 @@ public static class ExactPropagatorChoice
         }
 
         var violation = Format($"no detailed balance (relative violation {detailedBalanceViolation:G3} >= {DetailedBalanceThreshold:G3})");
-        var general = new GeneralEigenPropagator(rates, la);
+        var general = spectrum?.General is { } eigen
+            ? new GeneralEigenPropagator(rates, eigen, la)
+            : new GeneralEigenPropagator(rates, la);
         if (general.EigenvectorCondition < ConditionThreshold)
         {
             general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {general.EigenvectorCondition:G3} < {ConditionThreshold:G3}");

@@ -25,10 +25,25 @@ public sealed class GeneralEigenPropagator : IPropagator
 
     /// <summary>Decomposes K of <paramref name="rates"/> with <paramref name="la"/> and inverts the eigenvector matrix.</summary>
     public GeneralEigenPropagator(RateMatrix rates, ILinearAlgebra la)
+        : this(rates, (la ?? throw new ArgumentNullException(nameof(la))).GeneralEigen((rates ?? throw new ArgumentNullException(nameof(rates))).Generator), la)
+    {
+    }
+
+    /// <summary>
+    /// Uses a decomposition of K made before (<see cref="Diagnostics.Spectrum.General"/>), so that a
+    /// run decomposes K once; it inverts the eigenvector matrix (O(N^3)) and copies nothing else.
+    /// </summary>
+    /// <exception cref="ArgumentException">The decomposition is not of order N.</exception>
+    public GeneralEigenPropagator(RateMatrix rates, GeneralEigenDecomposition decomposition, ILinearAlgebra la)
     {
         ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(decomposition);
         ArgumentNullException.ThrowIfNull(la);
-        var decomposition = la.GeneralEigen(rates.Generator);
+        if (decomposition.Values.Length != rates.Count)
+        {
+            throw new ArgumentException($"the decomposition is of order {decomposition.Values.Length}, the rate matrix has {rates.Count} states", nameof(decomposition));
+        }
+
         SpectralRadius = decomposition.Values.Length == 0 ? 0.0 : decomposition.Values.Max(Complex.Abs);
         ZeroTolerance = SpectralFunctions.ZeroTolerance(SpectralRadius, rates.Count);
         _values = decomposition.Values.Select(Clean).ToArray();

@@ -50,18 +50,30 @@ public sealed class SymmetricEigenPropagator : IPropagator
     /// <summary>Decomposes the symmetrized generator of <paramref name="rates"/> with <paramref name="la"/>.</summary>
     /// <exception cref="ArgumentException">Some ln pi_i is not finite.</exception>
     public SymmetricEigenPropagator(RateMatrix rates, ILinearAlgebra la)
+        : this(rates, Decompose(rates, la), la)
+    {
+    }
+
+    /// <summary>
+    /// Uses a decomposition of S = D^(-1/2) K D^(1/2) made before, so that a run decomposes S once:
+    /// pass <c>Spectrum.Symmetric</c> of the diagnostics (<see cref="Diagnostics.Spectrum.Symmetric"/>).
+    /// The eigenvectors are shared, not copied; <paramref name="la"/> does the products.
+    /// </summary>
+    /// <exception cref="ArgumentException">Some ln pi_i is not finite, or the decomposition is not N x N.</exception>
+    public SymmetricEigenPropagator(RateMatrix rates, SymmetricEigenDecomposition decomposition, ILinearAlgebra la)
     {
         ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(decomposition);
         ArgumentNullException.ThrowIfNull(la);
-        var logPi = rates.States.LogEquilibrium;
-        if (logPi.Any(v => !double.IsFinite(v)))
+        RequireFiniteLogPi(rates);
+        var n = rates.Count;
+        if (decomposition.Values.Length != n || decomposition.Vectors.RowCount != n || decomposition.Vectors.ColumnCount != n)
         {
-            throw new ArgumentException("every ln pi_i must be finite for the symmetric path", nameof(rates));
+            throw new ArgumentException($"the decomposition is of order {decomposition.Values.Length}, the rate matrix has {n} states", nameof(decomposition));
         }
 
         _la = la;
-        _halfLogPi = logPi.Select(v => 0.5 * v).ToArray();
-        var decomposition = la.SymmetricEigen(SymmetrizedGenerator.Build(rates));
+        _halfLogPi = rates.States.LogEquilibrium.Select(v => 0.5 * v).ToArray();
         SpectralRadius = decomposition.Values.Length == 0 ? 0.0 : decomposition.Values.Max(Math.Abs);
         ZeroTolerance = SpectralFunctions.ZeroTolerance(SpectralRadius, rates.Count);
         _values = decomposition.Values.Select(l => l >= -ZeroTolerance ? 0.0 : l).ToArray();
@@ -173,6 +185,22 @@ public sealed class SymmetricEigenPropagator : IPropagator
 
         throttle.Complete();
         return new Trajectory(times.ToArray(), populations);
+    }
+
+    private static SymmetricEigenDecomposition Decompose(RateMatrix rates, ILinearAlgebra la)
+    {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(la);
+        RequireFiniteLogPi(rates);
+        return la.SymmetricEigen(SymmetrizedGenerator.Build(rates));
+    }
+
+    private static void RequireFiniteLogPi(RateMatrix rates)
+    {
+        if (rates.States.LogEquilibrium.Any(v => !double.IsFinite(v)))
+        {
+            throw new ArgumentException("every ln pi_i must be finite for the symmetric path", nameof(rates));
+        }
     }
 
     /// <summary>c = max_i (ln|x_i| - 0.5 ln pi_i) over the non-zero x_i; minus infinity when x = 0.</summary>
