@@ -88,8 +88,6 @@ public static class DetailedBalance
     /// <summary>Measures detailed balance of <paramref name="rates"/>: pairwise always, Kolmogorov cycles for matrices taken as given.</summary>
     public static BalanceReport Analyze(RateMatrix rates)
     {
-        var n = rates.Count;
-        var k = rates.Generator.Values;
         var logPi = rates.States.LogEquilibrium;
         var labels = rates.States.Labels;
         var tolerateUnderflow = rates.Origin == BalanceOrigin.CompletedByDetailedBalance;
@@ -97,47 +95,72 @@ public static class DetailedBalance
         RateEntry? worstPair = null;
         var oneWay = new List<RateEntry>();
         var oneWayCount = 0;
-        for (var j = 0; j < n; j++)
+
+        // One visit per unordered pair {i, j} (i > j) with a rate either way: toI = K_ij, toJ = K_ji.
+        void VisitPair(int i, int j, double toI, double toJ)
         {
-            for (var i = j + 1; i < n; i++)
+            if (toI <= 0 && toJ <= 0)
             {
-                var toI = k[(j * n) + i];
-                var toJ = k[(i * n) + j];
-                if (toI <= 0 && toJ <= 0)
+                return;
+            }
+
+            // Flows at equilibrium in log space: ln(K_ij pi_j) and ln(K_ji pi_i).
+            var flowToI = toI > 0 ? Math.Log(toI) + logPi[j] : double.NegativeInfinity;
+            var flowToJ = toJ > 0 ? Math.Log(toJ) + logPi[i] : double.NegativeInfinity;
+            var smallIsToJ = toJ < toI;
+            var small = smallIsToJ ? toJ : toI;
+            if (small < _minNormal)
+            {
+                var expectedLog = smallIsToJ ? flowToI - logPi[i] : flowToJ - logPi[j];
+                if (tolerateUnderflow && expectedLog < _logMinNormal)
                 {
-                    continue;
+                    return;
                 }
 
-                // Flows at equilibrium in log space: ln(K_ij pi_j) and ln(K_ji pi_i).
-                var flowToI = toI > 0 ? Math.Log(toI) + logPi[j] : double.NegativeInfinity;
-                var flowToJ = toJ > 0 ? Math.Log(toJ) + logPi[i] : double.NegativeInfinity;
-                var smallIsToJ = toJ < toI;
-                var small = smallIsToJ ? toJ : toI;
-                if (small < _minNormal)
+                if (small <= 0)
                 {
-                    var expectedLog = smallIsToJ ? flowToI - logPi[i] : flowToJ - logPi[j];
-                    if (tolerateUnderflow && expectedLog < _logMinNormal)
+                    oneWayCount++;
+                    if (oneWay.Count < ListedOneWayEdges)
                     {
-                        continue;
+                        oneWay.Add(smallIsToJ ? new RateEntry(labels[j], labels[i], toI) : new RateEntry(labels[i], labels[j], toJ));
                     }
 
-                    if (small <= 0)
-                    {
-                        oneWayCount++;
-                        if (oneWay.Count < ListedOneWayEdges)
-                        {
-                            oneWay.Add(smallIsToJ ? new RateEntry(labels[j], labels[i], toI) : new RateEntry(labels[i], labels[j], toJ));
-                        }
-
-                        continue;
-                    }
+                    return;
                 }
+            }
 
-                var violation = Math.Abs(double.ExpM1(-Math.Abs(flowToI - flowToJ)));
-                if (worstPair is null || violation > worst)
+            var violation = Math.Abs(double.ExpM1(-Math.Abs(flowToI - flowToJ)));
+            if (worstPair is null || violation > worst)
+            {
+                worst = violation;
+                worstPair = new RateEntry(labels[j], labels[i], violation);
+            }
+        }
+
+        if (rates.Sparse is { } sparse)
+        {
+            // Stored entries only; a pair stored on one side alone is visited from that side.
+            rates.ForEachOffDiagonal((row, column, value) =>
+            {
+                if (row > column)
                 {
-                    worst = violation;
-                    worstPair = new RateEntry(labels[j], labels[i], violation);
+                    VisitPair(row, column, value, sparse[column, row]);
+                }
+                else if (sparse[column, row] == 0)
+                {
+                    VisitPair(column, row, 0.0, value);
+                }
+            });
+        }
+        else
+        {
+            var n = rates.Count;
+            var k = rates.Generator.Values;
+            for (var j = 0; j < n; j++)
+            {
+                for (var i = j + 1; i < n; i++)
+                {
+                    VisitPair(i, j, k[(j * n) + i], k[(i * n) + j]);
                 }
             }
         }

@@ -91,27 +91,22 @@ public static class MatrixChecks
     }
 
     private static int CountNonFinite(RateMatrix rates) =>
-        rates.Generator.Values.Count(v => !double.IsFinite(v)) + rates.Loss.Count(v => !double.IsFinite(v)) + rates.Pumping.Count(v => !double.IsFinite(v));
+        (rates.Sparse?.Values ?? rates.Generator.Values).Count(v => !double.IsFinite(v)) + rates.Loss.Count(v => !double.IsFinite(v)) + rates.Pumping.Count(v => !double.IsFinite(v));
 
     private static (double Error, int? Column) ConservationError(RateMatrix rates)
     {
         var n = rates.Count;
-        var k = rates.Generator.Values;
         var scale = 0.0;
         for (var j = 0; j < n; j++)
         {
-            scale = Math.Max(scale, Math.Abs(k[(j * n) + j]));
+            scale = Math.Max(scale, Math.Abs(rates.Diagonal(j)));
         }
 
         var worst = 0.0;
         int? column = null;
         for (var j = 0; j < n; j++)
         {
-            var sum = rates.Loss[j];
-            for (var i = 0; i < n; i++)
-            {
-                sum += k[(j * n) + i];
-            }
+            var sum = rates.Loss[j] + ColumnSum(rates, j);
 
             // Relative to max|K_jj|; an all-zero diagonal leaves the absolute error.
             var error = Math.Abs(sum) / (scale > 0 ? scale : 1);
@@ -125,28 +120,46 @@ public static class MatrixChecks
         return (worst, column);
     }
 
-    private static (int Count, RateEntry? Worst) NegativeOffDiagonals(RateMatrix rates)
+    /// <summary>sum_i K_ij by recursive summation over the stored entries of column j.</summary>
+    private static double ColumnSum(RateMatrix rates, int j)
     {
+        var sum = 0.0;
+        if (rates.Sparse is { } sparse)
+        {
+            for (var p = sparse.ColumnStarts[j]; p < sparse.ColumnStarts[j + 1]; p++)
+            {
+                sum += sparse.Values[p];
+            }
+
+            return sum;
+        }
+
         var n = rates.Count;
         var k = rates.Generator.Values;
+        for (var i = 0; i < n; i++)
+        {
+            sum += k[(j * n) + i];
+        }
+
+        return sum;
+    }
+
+    private static (int Count, RateEntry? Worst) NegativeOffDiagonals(RateMatrix rates)
+    {
         var labels = rates.States.Labels;
         var count = 0;
         RateEntry? worst = null;
-        for (var j = 0; j < n; j++)
+        rates.ForEachOffDiagonal((i, j, rate) =>
         {
-            for (var i = 0; i < n; i++)
+            if (rate < 0)
             {
-                var rate = k[(j * n) + i];
-                if (i != j && rate < 0)
+                count++;
+                if (worst is null || rate < worst.Value)
                 {
-                    count++;
-                    if (worst is null || rate < worst.Value)
-                    {
-                        worst = new RateEntry(labels[j], labels[i], rate);
-                    }
+                    worst = new RateEntry(labels[j], labels[i], rate);
                 }
             }
-        }
+        });
 
         return (count, worst);
     }

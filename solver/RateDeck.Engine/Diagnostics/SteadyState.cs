@@ -124,7 +124,7 @@ public static class SteadyState
             return Fail($"no steady state can be resolved: {e.Message}; the losses are too small against the rates to fix the populations", masses, absorption);
         }
 
-        var residual = Residual(rates, populations, algebra);
+        var residual = Residual(rates, populations);
         var keptMass = lossFree.Sum(m => m.Mass);
         if (rates.IsDriven)
         {
@@ -188,6 +188,10 @@ public static class SteadyState
         }
     }
 
-    private static double Residual(RateMatrix rates, double[] populations, ILinearAlgebra algebra) =>
-        algebra.Multiply(rates.Generator, populations).Select((v, i) => Math.Abs(v + rates.Pumping[i])).DefaultIfEmpty(0).Max();
+    private static double Residual(RateMatrix rates, double[] populations)
+    {
+        var product = (double[])rates.Pumping.Clone();
+        rates.MultiplyAdd(populations, product);
+        return product.Select(Math.Abs).DefaultIfEmpty(0).Max();
+    }
 }

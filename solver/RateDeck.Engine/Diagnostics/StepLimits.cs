@@ -92,7 +92,7 @@ public static class StepLimits
         var rho = spectrum.SpectralRadius;
         var slowest = spectrum.SlowestRate;
         var stiffness = slowest is { } s ? rho / s : (double?)null;
-        var maxDiagonal = Enumerable.Range(0, rates.Count).Select(i => Math.Abs(rates.Generator[i, i])).DefaultIfEmpty(0).Max();
+        var maxDiagonal = Enumerable.Range(0, rates.Count).Select(i => Math.Abs(rates.Diagonal(i))).DefaultIfEmpty(0).Max();
         var horizon = endTime ?? (slowest is { } rate ? 1 / rate : (double?)null);
         var nonZero = spectrum.Values.Where(v => Complex.Abs(v) > spectrum.ZeroTolerance).ToList();
 

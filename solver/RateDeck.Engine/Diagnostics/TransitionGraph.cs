@@ -24,14 +24,14 @@ public sealed record StateClasses(IReadOnlyList<ClosedClass> Closed, int[] Trans
 /// components without an outgoing edge are the closed classes (SPEC 2). Tarjan's algorithm
 /// (SIAM J. Comput. 1 (1972) 146) runs with an explicit stack, so N = 20,000 or more cannot
 /// overflow the call stack, and it reads successors straight from the dense columns of K, so it
-/// needs O(N) memory beyond K however dense K is.
+/// needs O(N) memory beyond K however dense K is; a sparse K is read from its stored columns.
 /// </summary>
 public static class TransitionGraph
 {
     /// <summary>Sorts the states of <paramref name="rates"/> into closed classes and transient states.</summary>
     public static StateClasses Classify(RateMatrix rates)
     {
-        var (component, closed) = Condense(new DenseSuccessors(rates));
+        var (component, closed) = Condense(Successors(rates));
         var labels = rates.States.Labels;
         var members = new List<int>[closed.Length];
         var transient = new List<int>();
@@ -59,7 +59,7 @@ public static class TransitionGraph
     /// <summary>Marks every state reachable from <paramref name="sources"/> (sources included) by a path of transitions.</summary>
     public static bool[] ReachableFrom(RateMatrix rates, IEnumerable<int> sources)
     {
-        var graph = new DenseSuccessors(rates);
+        var graph = Successors(rates);
         var reached = new bool[rates.Count];
         var queue = new Queue<int>();
         foreach (var source in sources)
@@ -87,6 +87,10 @@ public static class TransitionGraph
 
         return reached;
     }
+
+    /// <summary>The successor lists of K: from the stored columns when sparse, else by scanning the dense columns.</summary>
+    private static ISuccessors Successors(RateMatrix rates) =>
+        rates.Sparse is { } sparse ? new SparseSuccessors(sparse) : new DenseSuccessors(rates);
 
     /// <summary>
     /// Strongly connected components (component id per node) and whether each component is closed
@@ -215,3 +219,24 @@ internal sealed class DenseSuccessors(RateMatrix rates) : ISuccessors
     }
 }
 
+/// <summary>Successors j -> i where K_ij &gt; 0, from the stored entries of column j.</summary>
+internal sealed class SparseSuccessors(SparseGenerator sparse) : ISuccessors
+{
+    public int Count => sparse.Count;
+
+    public int Next(int node, ref int cursor)
+    {
+        var end = sparse.ColumnStarts[node + 1] - sparse.ColumnStarts[node];
+        while (cursor < end)
+        {
+            var p = sparse.ColumnStarts[node] + cursor++;
+            var row = sparse.RowIndices[p];
+            if (row != node && sparse.Values[p] > 0)
+            {
+                return row;
+            }
+        }
+
+        return -1;
+    }
+}

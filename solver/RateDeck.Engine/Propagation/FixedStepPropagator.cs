@@ -15,7 +15,7 @@ public abstract class FixedStepPropagator : IPropagator
 {
     private const double _stepCountSlack = 1e-9;
     private const double _maxStepsPerOutput = 1e15;
-    private readonly double[] _generator;
+    private readonly RateMatrix _rates;
     private readonly double[] _pumping;
 
     /// <summary>Sets up a method of the given name and work-vector count on K and s of <paramref name="rates"/>.</summary>
@@ -29,7 +29,7 @@ public abstract class FixedStepPropagator : IPropagator
         }
 
         StateCount = rates.Count;
-        _generator = rates.Generator.Values;
+        _rates = rates;
         _pumping = rates.Pumping;
         TimeStep = dt;
         Name = name;
@@ -102,10 +102,10 @@ public abstract class FixedStepPropagator : IPropagator
     /// <summary>Advances <paramref name="p"/> in place by one step of length <paramref name="h"/>.</summary>
     protected abstract void Step(double[] p, double h, double[][] work);
 
-    /// <summary>Writes dP/dt = K P + s into <paramref name="derivative"/>.</summary>
+    /// <summary>Writes dP/dt = K P + s into <paramref name="derivative"/>: O(N^2) for dense K, O(stored entries) for sparse K.</summary>
     protected void EvaluateDerivative(ReadOnlySpan<double> p, Span<double> derivative)
     {
         _pumping.CopyTo(derivative);
-        DenseKernels.MultiplyAdd(_generator, StateCount, p, derivative);
+        _rates.MultiplyAdd(p, derivative);
     }
 }

@@ -1,5 +1,4 @@
 using System.Globalization;
-using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.Decks;
 using RateDeck.States;
 
@@ -42,7 +41,7 @@ public static class RateMatrixAssembler
         }
 
         var n = states.Count;
-        var generator = DenseMatrix.Create(n, n, 0.0);
+        var (generator, storage) = GeneratorBuilder.For(deck.Coupling, n);
         var origin = deck.Coupling switch
         {
             MeasuredOneWay oneWay => PlaceOneWay(oneWay, states, generator),
@@ -59,12 +58,12 @@ public static class RateMatrixAssembler
             : PerStateEvaluator.Evaluate(deck, deck.Pumping, "pumping rate", PerStateRequirement.NonNegative);
 
         FillDiagonal(generator, loss, states, deck.Coupling.Span);
-        return new RateMatrix(states, generator, loss, pumping, origin);
+        return generator.Build(states, loss, pumping, origin, storage);
     }
 
-    private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, DenseMatrix generator)
+    private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, GeneratorBuilder generator)
     {
-        var seen = new bool[states.Count * states.Count];
+        var seen = new PairSet(states.Count);
         foreach (var entry in oneWay.Entries)
         {
             CheckEntry(entry, states, seen);
@@ -86,13 +85,13 @@ public static class RateMatrixAssembler
         return BalanceOrigin.CompletedByDetailedBalance;
     }
 
-    private static BalanceOrigin PlaceFull(MeasuredFull full, StateSpace states, DenseMatrix generator)
+    private static BalanceOrigin PlaceFull(MeasuredFull full, StateSpace states, GeneratorBuilder generator)
     {
-        var seen = new bool[states.Count * states.Count];
+        var seen = new PairSet(states.Count);
         foreach (var entry in full.Entries)
         {
             CheckEntry(entry, states, seen);
-            generator[entry.To, entry.From] = entry.Rate;
+            generator.Set(entry.To, entry.From, entry.Rate);
         }
 
         return BalanceOrigin.TakenAsGiven;
@@ -103,7 +102,7 @@ public static class RateMatrixAssembler
     /// numbers, evaluated once for every pair in the declared direction within the band.
     /// The kernel sees x, y, i, j, kT, then the deck parameters in ordinal order of their names.
     /// </summary>
-    private static BalanceOrigin PlaceKernel(KernelModel kernel, Deck deck, StateSpace states, DenseMatrix generator)
+    private static BalanceOrigin PlaceKernel(KernelModel kernel, Deck deck, StateSpace states, GeneratorBuilder generator)
     {
         if (kernel.Band is < 1)
         {
@@ -156,8 +155,8 @@ public static class RateMatrixAssembler
         return BalanceOrigin.CompletedByDetailedBalance;
     }
 
-    /// <summary>Validates one measured entry; <paramref name="seen"/> marks pairs already given (n x n, by from * n + to).</summary>
-    private static void CheckEntry(RateEntry entry, StateSpace states, bool[] seen)
+    /// <summary>Validates one measured entry; <paramref name="seen"/> marks pairs already given.</summary>
+    private static void CheckEntry(RateEntry entry, StateSpace states, PairSet seen)
     {
         var n = states.Count;
         if (entry.From < 0 || entry.From >= n || entry.To < 0 || entry.To >= n)
@@ -176,22 +175,19 @@ public static class RateMatrixAssembler
             throw new DeckException(entry.Span, string.Create(CultureInfo.InvariantCulture, $"the rate from {pair.Describe()} is {entry.Rate}; a rate must be finite and zero or more"));
         }
 
-        ref var given = ref seen[entry.From * n + entry.To];
-        if (given)
+        if (!seen.Add(entry.From, entry.To))
         {
             throw new DeckException(entry.Span, $"the rate from {pair.Describe()} is given twice; keep one");
         }
-
-        given = true;
     }
 
     /// <summary>
     /// Sets K[to, from] = rate and completes K[from, to] = rate pi_from / pi_to in log space;
     /// false (nothing completed) when the completed rate would overflow a double.
     /// </summary>
-    private static bool TryPlaceAndComplete(DenseMatrix generator, Pair pair, double rate)
+    private static bool TryPlaceAndComplete(GeneratorBuilder generator, Pair pair, double rate)
     {
-        generator[pair.To, pair.From] = rate;
+        generator.Set(pair.To, pair.From, rate);
         if (rate == 0)
         {
             return true;
@@ -203,7 +199,7 @@ public static class RateMatrixAssembler
             return false;
         }
 
-        generator[pair.From, pair.To] = reverse >= _smallestNormal ? reverse : 0.0;
+        generator.Set(pair.From, pair.To, reverse >= _smallestNormal ? reverse : 0.0);
         return true;
     }
 
@@ -219,30 +215,17 @@ public static class RateMatrixAssembler
         }
     }
 
-    private static void FillDiagonal(DenseMatrix generator, double[] loss, StateSpace states, SourceSpan couplingSpan)
+    private static void FillDiagonal(GeneratorBuilder generator, double[] loss, StateSpace states, SourceSpan couplingSpan)
     {
-        var n = generator.RowCount;
-        var storage = generator.Values;
-        for (var column = 0; column < n; column++)
+        for (var column = 0; column < states.Count; column++)
         {
-            var sum = new NeumaierSum();
-            var offset = column * n;
-            for (var row = 0; row < n; row++)
-            {
-                if (row != column)
-                {
-                    sum.Add(storage[offset + row]);
-                }
-            }
-
-            sum.Add(loss[column]);
-            var diagonal = -sum.Value;
+            var diagonal = -generator.OutflowOf(column, loss[column]);
             if (!double.IsFinite(diagonal))
             {
                 throw new DeckException(couplingSpan, $"the rates out of state '{states.Labels[column]}' (state {column + 1}) add up beyond the largest double; check the rates and their units");
             }
 
-            storage[offset + column] = diagonal;
+            generator.Set(column, column, diagonal);
         }
     }
 
