@@ -46,8 +46,9 @@ public sealed class Spectrum
 
     private readonly double[] _logEquilibrium;
     private readonly double[][] _nullBasis;
+    private readonly int _nullDimension;
 
-    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general)
+    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, double[][]? nullBasis = null)
     {
         _logEquilibrium = rates.States.LogEquilibrium;
         Path = path;
@@ -59,7 +60,8 @@ public sealed class Spectrum
         SpectralRadius = raw.Length == 0 ? 0 : raw.Max(Complex.Abs);
         ZeroTolerance = ZeroToleranceFactor * raw.Length * MachineEpsilon * SpectralRadius;
         var nullColumns = Enumerable.Range(0, raw.Length).Where(c => Complex.Abs(raw[c]) <= ZeroTolerance).ToList();
-        _nullBasis = [.. nullColumns.Select(c => RealNullVector(symmetric, general, c))];
+        _nullDimension = nullColumns.Count;
+        _nullBasis = nullBasis ?? [.. nullColumns.Select(c => RealNullVector(symmetric, general, c))];
         var decaying = raw.Where(v => Complex.Abs(v) > ZeroTolerance && -v.Real > ZeroTolerance).ToList();
         SlowestRate = decaying.Count == 0 ? null : decaying.Min(v => -v.Real);
         NonDecayingCount = raw.Length - nullColumns.Count - decaying.Count;
@@ -85,7 +87,7 @@ public sealed class Spectrum
     public double ZeroTolerance { get; }
 
     /// <summary>Number of zero eigenvalues within <see cref="ZeroTolerance"/>.</summary>
-    public int NullDimension => _nullBasis.Length;
+    public int NullDimension => _nullDimension;
 
     /// <summary>Decay rate -Re(lambda) of the slowest decaying mode (beyond the zero tolerance); null when no mode decays.</summary>
     public double? SlowestRate { get; }
@@ -99,7 +101,7 @@ public sealed class Spectrum
     /// <summary>True when every eigenvalue is real to within <see cref="ZeroTolerance"/>.</summary>
     public bool IsReal => MaxImaginaryPart <= ZeroTolerance;
 
-    /// <summary>The decomposition of S on the symmetric path (columns in the solver's order), else null.</summary>
+    /// <summary>The decomposition of S on the symmetric path (columns in the solver's order), else null; also null for a sparse K, whose spectrum comes without eigenvectors.</summary>
     public SymmetricEigenDecomposition? Symmetric { get; }
 
     /// <summary>The decomposition of K on the general path (columns in the solver's order), else null.</summary>
@@ -118,7 +120,7 @@ public sealed class Spectrum
     /// <summary>As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance already measured (null for completed matrices).</summary>
     internal static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport? balance)
     {
-        if (rates.Generator.Values.Any(v => !double.IsFinite(v)))
+        if ((rates.Sparse?.Values ?? rates.Generator.Values).Any(v => !double.IsFinite(v)))
         {
             throw new ArgumentException("the rate matrix has non-finite entries; fix the rates before asking for its spectrum", nameof(rates));
         }
@@ -141,8 +143,106 @@ public sealed class Spectrum
             return new Spectrum(rates, SpectrumPath.General, $"detailed balance fails for the deck's pi ({why}): general eigen-decomposition of K", decomposition.Values, null, decomposition);
         }
 
+        if (rates.IsSparse)
+        {
+            return ComputeBand(rates, algebra, reason);
+        }
+
         var symmetric = algebra.SymmetricEigen(SymmetrizedGenerator.Build(rates));
         return new Spectrum(rates, SpectrumPath.Symmetrized, reason, [.. symmetric.Values.Select(v => new Complex(v, 0))], symmetric, null);
+    }
+
+    /// <summary>
+    /// The symmetric path for a sparse K: eigenvalues of the band matrix S without eigenvectors
+    /// (<see cref="BandEigenvalues"/>, O(N) or O(N b) memory), and one null vector per closed class
+    /// by inverse iteration on that class's block of S (under detailed balance every transition is
+    /// two-way, so S is block diagonal over the closed classes and each block has at most one
+    /// zero eigenvalue). The shift sigma = 1e-2 of the zero tolerance sits between the zero
+    /// eigenvalue and the slowest decay of any mode that the tolerance can tell from zero, so
+    /// each step shrinks the other modes by at least 1e-2; <see cref="InverseIterations"/> steps
+    /// leave 1e-16 of them. A block's vector counts as a null vector when its Rayleigh quotient is
+    /// within the zero tolerance.
+    /// </summary>
+    private static Spectrum ComputeBand(RateMatrix rates, ILinearAlgebra algebra, string reason)
+    {
+        var band = SymmetrizedGenerator.BuildBand(rates);
+        var values = BandEigenvalues.Compute(band, algebra, out var method);
+        var rho = values.Length == 0 ? 0.0 : Math.Max(Math.Abs(values[0]), Math.Abs(values[^1]));
+        var tolerance = ZeroToleranceFactor * values.Length * MachineEpsilon * rho;
+        var basis = new List<double[]>();
+        foreach (var closedClass in TransitionGraph.Classify(rates).Closed)
+        {
+            var (vector, rayleigh) = SlowestVector(band, closedClass.States, tolerance);
+            if (Math.Abs(rayleigh) <= tolerance)
+            {
+                var full = new double[rates.Count];
+                for (var a = 0; a < closedClass.States.Length; a++)
+                {
+                    full[closedClass.States[a]] = vector[a];
+                }
+
+                basis.Add(full);
+            }
+        }
+
+        var sparseReason = $"{reason}; K is sparse ({rates.StorageReason}): eigenvalues of the band matrix S by {method}, null vectors by inverse iteration on each closed class";
+        return new Spectrum(rates, SpectrumPath.Symmetrized, sparseReason, [.. values.Select(v => new Complex(v, 0))], null, null, [.. basis]);
+    }
+
+    /// <summary>Inverse-iteration steps for a null vector of a sparse S (see <see cref="ComputeBand"/>).</summary>
+    private const int InverseIterations = 8;
+
+    /// <summary>The unit eigenvector of the block of S on <paramref name="states"/> whose eigenvalue is nearest zero, and its Rayleigh quotient.</summary>
+    private static (double[] Vector, double Rayleigh) SlowestVector(SymmetricBand band, int[] states, double tolerance)
+    {
+        var m = states.Length;
+        var b = band.Bandwidth;
+        var local = new double[m * (b + 1)];
+        for (var a = 0; a < m; a++)
+        {
+            for (var c = a; c < Math.Min(m, a + b + 1); c++)
+            {
+                local[(a * (b + 1)) + c - a] = band[states[c], states[a]];
+            }
+        }
+
+        var block = new SymmetricBand(m, b, local);
+        if (m == 1 || tolerance == 0)
+        {
+            var single = new double[m];
+            single[0] = 1.0;
+            return (single, m == 1 ? block[0, 0] : double.PositiveInfinity);
+        }
+
+        // (sigma I - S) x = u: the solver forms z I - t S, here with z = sigma and t = 1.
+        var solver = new Propagation.ComplexBandSolver(block, 1);
+        var u = Enumerable.Repeat(1.0 / Math.Sqrt(m), m).ToArray();
+        for (var step = 0; step < InverseIterations; step++)
+        {
+            var x = solver.Solve(new Complex(1e-2 * tolerance, 0), 1.0, [u]);
+            var norm = 0.0;
+            for (var a = 0; a < m; a++)
+            {
+                norm += x[a].Real * x[a].Real;
+            }
+
+            norm = Math.Sqrt(norm);
+            for (var a = 0; a < m; a++)
+            {
+                u[a] = x[a].Real / norm;
+            }
+        }
+
+        var rayleigh = 0.0;
+        for (var a = 0; a < m; a++)
+        {
+            for (var c = Math.Max(0, a - b); c < Math.Min(m, a + b + 1); c++)
+            {
+                rayleigh += u[a] * block[a, c] * u[c];
+            }
+        }
+
+        return (u, rayleigh);
     }
 
     /// <summary>
@@ -168,7 +268,7 @@ public sealed class Spectrum
         }
 
         double[] vector;
-        if (Symmetric is not null)
+        if (Path == SpectrumPath.Symmetrized)
         {
             // v_i = u_i sqrt(pi_i), scaled by the largest |v_i| in log space before leaving it.
             var logs = states.Select(s => Math.Log(Math.Abs(best[s])) + (0.5 * _logEquilibrium[s])).ToArray();

@@ -53,6 +53,8 @@ internal sealed unsafe class LapackImports
         Dgesv = (delegate* unmanaged[Cdecl]<int*, int*, double*, int*, int*, double*, int*, int*, void>)resolve("dgesv_");
         Dgemm = (delegate* unmanaged[Cdecl]<byte*, byte*, int*, int*, int*, double*, double*, int*, double*, int*, double*, double*, int*, nint, nint, void>)resolve("dgemm_");
         Dgemv = (delegate* unmanaged[Cdecl]<byte*, int*, int*, double*, double*, int*, double*, int*, double*, double*, int*, nint, void>)resolve("dgemv_");
+        Dsterf = (delegate* unmanaged[Cdecl]<int*, double*, double*, int*, void>)resolve("dsterf_");
+        Dsbev = (delegate* unmanaged[Cdecl]<byte*, byte*, int*, int*, double*, int*, double*, double*, int*, double*, int*, nint, nint, void>)resolve("dsbev_");
     }
 
     /// <summary>The library the symbols came from.</summary>
@@ -78,6 +80,12 @@ internal sealed unsafe class LapackImports
 
     /// <summary>DGEMV(TRANS, M, N, ALPHA, A, LDA, X, INCX, BETA, Y, INCY): y = alpha op(A) x + beta y.</summary>
     public delegate* unmanaged[Cdecl]<byte*, int*, int*, double*, double*, int*, double*, int*, double*, double*, int*, nint, void> Dgemv { get; }
+
+    /// <summary>DSTERF(N, D, E, INFO): all eigenvalues of a symmetric tridiagonal matrix (Pal-Walker-Kahan QL/QR), O(N^2), no vectors.</summary>
+    public delegate* unmanaged[Cdecl]<int*, double*, double*, int*, void> Dsterf { get; }
+
+    /// <summary>DSBEV(JOBZ, UPLO, N, KD, AB, LDAB, W, Z, LDZ, WORK, INFO): eigenvalues (and vectors) of a symmetric band matrix.</summary>
+    public delegate* unmanaged[Cdecl]<byte*, byte*, int*, int*, double*, int*, double*, double*, int*, double*, int*, nint, nint, void> Dsbev { get; }
 
     /// <summary>
     /// Loads the first candidate that opens and exports every symbol. The library stays loaded for
@@ -115,7 +123,7 @@ internal sealed unsafe class LapackImports
             return $"native library {candidate.Blas} (BLAS for {candidate.Lapack}) not found";
         }
 
-        string[] lapackSymbols = ["dsyevd_", "dsyevr_", "dgeev_", "dgesv_"];
+        string[] lapackSymbols = ["dsyevd_", "dsyevr_", "dgeev_", "dgesv_", "dsterf_", "dsbev_"];
         string[] blasSymbols = ["dgemm_", "dgemv_"];
         var found = new Dictionary<string, nint>();
         var missing = new List<string>();

@@ -24,6 +24,28 @@ internal static class NativeSelfCheck
         }
     }
 
+    /// <summary>The band eigenvalue routines (dsterf_, dsbev_) on the second-difference matrix of order 3; null when right.</summary>
+    public static string? RunBand(OpenBlasLinearAlgebra native)
+    {
+        try
+        {
+            // Eigenvalues 2 - 2 cos(k pi / 4) of tridiag(-1, 2, -1), closed form (common practice).
+            double[] expected = [2 - Math.Sqrt(2), 2, 2 + Math.Sqrt(2)];
+            if (!Near(native.TridiagonalEigenvalues([2, 2, 2], [-1, -1]), expected))
+            {
+                return "dsterf_ gave wrong eigenvalues of a 3 x 3 tridiagonal matrix";
+            }
+
+            return Near(native.BandEigenvalues(new Rates.SymmetricBand(3, 1, [2, -1, 2, -1, 2, 0])), expected)
+                ? null
+                : "dsbev_ gave wrong eigenvalues of a 3 x 3 band matrix";
+        }
+        catch (Exception error) when (error is ArithmeticException or InvalidOperationException or ArgumentException)
+        {
+            return error.Message;
+        }
+    }
+
     private static string? Check(ILinearAlgebra provider)
     {
         // [1 2; 3 4] [5 6; 7 8] = [19 22; 43 50], by hand.

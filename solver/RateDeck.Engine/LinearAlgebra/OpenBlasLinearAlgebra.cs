@@ -66,7 +66,7 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
         }
 
         var provider = new OpenBlasLinearAlgebra(load.Imports, SymmetricEigenDriver.DivideAndConquer);
-        var failure = NativeSelfCheck.Run(provider) ?? NativeSelfCheck.Run(provider.WithSymmetricDriver(SymmetricEigenDriver.RelativelyRobust));
+        var failure = NativeSelfCheck.Run(provider) ?? NativeSelfCheck.Run(provider.WithSymmetricDriver(SymmetricEigenDriver.RelativelyRobust)) ?? NativeSelfCheck.RunBand(provider);
         if (failure is not null)
         {
             return (null, $"native library {load.Imports.Library.DisplayName} failed the self-check: {failure}");
@@ -186,6 +186,54 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
 
         DecompositionConventions.ThrowIfSingular(diagonal);
         return new DenseMatrix(n, nrhs, x);
+    }
+
+    /// <summary>
+    /// All eigenvalues, ascending, of the symmetric tridiagonal matrix with the given diagonal
+    /// (N) and off-diagonal (N - 1), by dsterf_: O(N^2) time, O(N) memory. Inputs are not modified.
+    /// </summary>
+    public double[] TridiagonalEigenvalues(double[] diagonal, double[] offDiagonal)
+    {
+        ArgumentNullException.ThrowIfNull(diagonal);
+        ArgumentNullException.ThrowIfNull(offDiagonal);
+        int n = diagonal.Length, info;
+        if (offDiagonal.Length != Math.Max(n - 1, 0))
+        {
+            throw new ArgumentException($"a tridiagonal matrix of order {n} has {Math.Max(n - 1, 0)} off-diagonal entries, not {offDiagonal.Length}", nameof(offDiagonal));
+        }
+
+        var d = (double[])diagonal.Clone();
+        var e = new double[Math.Max(n, 1)];
+        offDiagonal.CopyTo(e, 0);
+        fixed (double* pd = d, pe = e)
+        {
+            _lapack.Dsterf(&n, pd, pe, &info);
+        }
+
+        CheckInfo("dsterf_", info, "the QL/QR iteration did not converge");
+        return d;
+    }
+
+    /// <summary>
+    /// All eigenvalues, ascending, of a symmetric band matrix, by dsbev_ without vectors (reduction
+    /// to tridiagonal form, O(N^2 b), then QL/QR, O(N^2)); O(N b) memory. The input is not modified.
+    /// </summary>
+    public double[] BandEigenvalues(Rates.SymmetricBand band)
+    {
+        ArgumentNullException.ThrowIfNull(band);
+        int n = band.Count, kd = band.Bandwidth, ldab = kd + 1, ldz = 1, info;
+        byte jobz = Fortran.NoVectors, uplo = Fortran.Lower;
+        var ab = (double[])band.Lower.Clone();
+        var values = new double[n];
+        var work = new double[Math.Max(1, (3 * n) - 2)];
+        var z = new double[1];
+        fixed (double* pab = ab, pw = values, pz = z, pwork = work)
+        {
+            _lapack.Dsbev(&jobz, &uplo, &n, &kd, pab, &ldab, pw, pz, &ldz, pwork, &info, Fortran.CharLength, Fortran.CharLength);
+        }
+
+        CheckInfo("dsbev_", info, "the QL/QR iteration did not converge");
+        return values;
     }
 
     private double[] SymmetricEigenDivideAndConquer(DenseMatrix symmetric, double[] values)

@@ -6,7 +6,9 @@ using RateDeck.Rates;
 namespace RateDeck.Propagation;
 
 /// <summary>
-/// Picks the exact propagator for a rate matrix and says why (SPEC 2): the symmetric
+/// Picks the exact propagator for a rate matrix and says why (SPEC 2): for a sparse (banded) K
+/// under detailed balance the contour exponential (<see cref="ContourExponentialPropagator"/>,
+/// O(N) memory) while its rounding is harmless for the start; else the symmetric
 /// eigen-decomposition when detailed balance holds and its rounding is harmless for the start
 /// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
 /// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
@@ -45,6 +47,23 @@ public static class ExactPropagatorChoice
             : detailedBalanceViolation < DetailedBalanceThreshold
                 ? Format($"detailed balance holds (relative violation {detailedBalanceViolation:G3} < {DetailedBalanceThreshold:G3})")
                 : null;
+        if (balance is not null && rates.IsSparse)
+        {
+            var contour = new ContourExponentialPropagator(rates);
+            var contourEstimate = initial is null ? contour.WorstCaseRelativeError : contour.RelativeErrorEstimate(initial);
+            if (contourEstimate <= SymmetricEigenPropagator.RelativeErrorLimit)
+            {
+                contour.Reason = Format($"contour exponential: {balance}; K is {rates.StorageReason}, so no N x N eigenvectors are formed ({ContourExponentialPropagator.NodeCount / 2} band solves per output time, O(N) memory)");
+                return contour;
+            }
+
+            if (rates.Count > RateMatrix.DenseStateLimit)
+            {
+                throw new DenseStorageException(Format(
+                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {contourEstimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2}), and the dense Pade path needs more than the {RateMatrix.DenseStateLimit}-state limit"));
+            }
+        }
+
         if (balance is not null)
         {
             var symmetric = spectrum?.Symmetric is { } decomposition

@@ -41,7 +41,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
 
     private const int _timesPerBlock = 32;
     private readonly ILinearAlgebra _la;
-    private readonly double[] _halfLogPi;
+    private readonly EquilibriumScaling _scaling;
     private readonly double[] _values;
     private readonly DenseMatrix _vectors;
     private readonly ScaledProjection? _pumping;
@@ -73,16 +73,15 @@ public sealed class SymmetricEigenPropagator : IPropagator
         }
 
         _la = la;
-        _halfLogPi = rates.States.LogEquilibrium.Select(v => 0.5 * v).ToArray();
+        _scaling = new EquilibriumScaling(rates.States.LogEquilibrium);
         SpectralRadius = decomposition.Values.Length == 0 ? 0.0 : decomposition.Values.Max(Math.Abs);
         ZeroTolerance = SpectralFunctions.ZeroTolerance(SpectralRadius, rates.Count);
         _values = decomposition.Values.Select(l => l >= -ZeroTolerance ? 0.0 : l).ToArray();
         _vectors = decomposition.Vectors;
         _pumping = rates.IsDriven ? Project(rates.Pumping) : null;
-        _pumpingAmplification = Amplification(rates.Pumping);
-        var halfLogPiRange = _halfLogPi.Length == 0 ? 0.0 : _halfLogPi.Max() - _halfLogPi.Min();
-        EquilibriumDecades = 2 * halfLogPiRange / Math.Log(10);
-        WorstCaseRelativeError = ErrorFromAmplification(Math.Max(Math.Exp(halfLogPiRange), _pumpingAmplification));
+        _pumpingAmplification = _scaling.Amplification(rates.Pumping);
+        EquilibriumDecades = _scaling.Decades;
+        WorstCaseRelativeError = ErrorFromAmplification(Math.Max(Math.Exp(_scaling.HalfLogRange), _pumpingAmplification));
         ZeroEigenvalueCount = _values.Count(l => l == 0);
         Reason = string.Create(
             CultureInfo.InvariantCulture,
@@ -124,7 +123,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
     public double RelativeErrorEstimate(double[] initial)
     {
         PropagationInput.Check(_values.Length, initial, []);
-        return ErrorFromAmplification(Math.Max(Amplification(initial), _pumpingAmplification));
+        return ErrorFromAmplification(Math.Max(_scaling.Amplification(initial), _pumpingAmplification));
     }
 
     /// <inheritdoc />
@@ -170,10 +169,10 @@ public sealed class SymmetricEigenPropagator : IPropagator
                 var p = new double[n];
                 for (var i = 0; i < n; i++)
                 {
-                    p[i] = Unscale(y[column + i], _halfLogPi[i] + start.LogScale);
+                    p[i] = _scaling.Unscale(y[column + i], i, start.LogScale);
                     if (_pumping is not null)
                     {
-                        p[i] += Unscale(y[column + n + i], _halfLogPi[i] + _pumping.LogScale);
+                        p[i] += _scaling.Unscale(y[column + n + i], i, _pumping.LogScale);
                     }
                 }
 
@@ -203,52 +202,15 @@ public sealed class SymmetricEigenPropagator : IPropagator
         }
     }
 
-    /// <summary>c = max_i (ln|x_i| - 0.5 ln pi_i) over the non-zero x_i; minus infinity when x = 0.</summary>
-    private double LogScale(double[] x)
-    {
-        var logScale = double.NegativeInfinity;
-        for (var i = 0; i < x.Length; i++)
-        {
-            if (x[i] != 0)
-            {
-                logScale = Math.Max(logScale, Math.Log(Math.Abs(x[i])) - _halfLogPi[i]);
-            }
-        }
-
-        return logScale;
-    }
-
-    /// <summary>max_i sqrt(pi_i) exp(c) / sum |x|, formed in logarithms; 0 when x = 0.</summary>
-    private double Amplification(double[] x)
-    {
-        var logScale = LogScale(x);
-        return double.IsNegativeInfinity(logScale) ? 0.0 : Math.Exp(_halfLogPi.Max() + logScale - Math.Log(x.Sum(Math.Abs)));
-    }
-
     private double ErrorFromAmplification(double amplification) => _values.Length * SpectralFunctions.MachineEpsilon * amplification;
 
-    /// <summary>W = V^T u with u_i = x_i exp(-0.5 ln pi_i - c) (c = 0 when x = 0).</summary>
+    /// <summary>W = V^T u with u the scaled vector of <see cref="EquilibriumScaling.Scale"/>.</summary>
     private ScaledProjection Project(double[] x)
     {
-        var logScale = LogScale(x);
-        if (double.IsNegativeInfinity(logScale))
-        {
-            logScale = 0.0;
-        }
-
-        var u = new double[x.Length];
-        for (var i = 0; i < x.Length; i++)
-        {
-            u[i] = x[i] == 0 ? 0.0 : Math.CopySign(Math.Exp(Math.Log(Math.Abs(x[i])) - _halfLogPi[i] - logScale), x[i]);
-        }
-
+        var (u, logScale) = _scaling.Scale(x);
         return new ScaledProjection(_la.Multiply(_vectors, u, transposeA: true), logScale);
     }
 
-    /// <summary>y exp(logScale) formed in one exponent, so that it overflows only if the product does.</summary>
-    private static double Unscale(double y, double logScale) =>
-        y == 0 ? 0.0 : Math.CopySign(Math.Exp(Math.Log(Math.Abs(y)) + logScale), y);
-
-    /// <summary>Mode coefficients V^T D^(-1/2) x divided by exp(<see cref="LogScale"/>).</summary>
+    /// <summary>Mode coefficients V^T D^(-1/2) x divided by exp(c), c the scale of <see cref="EquilibriumScaling.LogScale"/>.</summary>
     private sealed record ScaledProjection(double[] Coefficients, double LogScale);
 }

@@ -24,18 +24,7 @@ public static class SymmetrizedGenerator
             s[j, j] = k[j, j];
             for (var i = j + 1; i < n; i++)
             {
-                var upper = k[i, j];
-                var lower = k[j, i];
-                double value;
-                if (upper >= lower)
-                {
-                    value = upper > 0 ? Math.Exp(Math.Log(upper) + 0.5 * (logPi[j] - logPi[i])) : 0.0;
-                }
-                else
-                {
-                    value = Math.Exp(Math.Log(lower) + 0.5 * (logPi[i] - logPi[j]));
-                }
-
+                var value = Entry(k[i, j], k[j, i], logPi[i], logPi[j]);
                 s[i, j] = value;
                 s[j, i] = value;
             }
@@ -43,4 +32,60 @@ public static class SymmetrizedGenerator
 
         return s;
     }
+
+    /// <summary>
+    /// The lower band of S for a sparse K of bandwidth b, in LAPACK's symmetric band layout
+    /// (UPLO = 'L'): S_ij for j &lt;= i &lt;= j + b at [j (b + 1) + (i - j)]. O(N b) memory.
+    /// </summary>
+    public static SymmetricBand BuildBand(RateMatrix rates)
+    {
+        var sparse = rates.Sparse ?? throw new ArgumentException("the rate matrix is dense; use Build", nameof(rates));
+        var n = rates.Count;
+        var b = sparse.Bandwidth;
+        var logPi = rates.States.LogEquilibrium;
+        var lower = new double[n * (b + 1)];
+        for (var j = 0; j < n; j++)
+        {
+            lower[j * (b + 1)] = sparse[j, j];
+            for (var i = j + 1; i <= Math.Min(n - 1, j + b); i++)
+            {
+                lower[(j * (b + 1)) + i - j] = Entry(sparse[i, j], sparse[j, i], logPi[i], logPi[j]);
+            }
+        }
+
+        return new SymmetricBand(n, b, lower);
+    }
+
+    /// <summary>S_ij = S_ji from K_ij = <paramref name="upper"/> and K_ji = <paramref name="lower"/>, through the larger of the two.</summary>
+    private static double Entry(double upper, double lower, double logPiI, double logPiJ) => upper >= lower
+        ? (upper > 0 ? Math.Exp(Math.Log(upper) + (0.5 * (logPiJ - logPiI))) : 0.0)
+        : Math.Exp(Math.Log(lower) + (0.5 * (logPiI - logPiJ)));
+}
+
+/// <summary>
+/// A real symmetric band matrix of order <paramref name="Count"/> and bandwidth
+/// <paramref name="Bandwidth"/>, lower band stored as LAPACK's UPLO = 'L' layout with
+/// LDAB = b + 1: element (i, j), j &lt;= i &lt;= j + b, at <paramref name="Lower"/>[j (b + 1) + (i - j)].
+/// </summary>
+public sealed record SymmetricBand(int Count, int Bandwidth, double[] Lower)
+{
+    /// <summary>Element (i, j) of the full symmetric matrix (zero outside the band).</summary>
+    public double this[int i, int j]
+    {
+        get
+        {
+            if (i < j)
+            {
+                (i, j) = (j, i);
+            }
+
+            return i - j > Bandwidth ? 0.0 : Lower[(j * (Bandwidth + 1)) + i - j];
+        }
+    }
+
+    /// <summary>The diagonal, a copy.</summary>
+    public double[] Diagonal() => [.. Enumerable.Range(0, Count).Select(j => Lower[j * (Bandwidth + 1)])];
+
+    /// <summary>The first sub-diagonal (N - 1 entries), a copy.</summary>
+    public double[] SubDiagonal() => Bandwidth == 0 ? new double[Math.Max(Count - 1, 0)] : [.. Enumerable.Range(0, Math.Max(Count - 1, 0)).Select(j => Lower[(j * (Bandwidth + 1)) + 1])];
 }

@@ -1,0 +1,143 @@
+using RateDeck.Rates;
+
+namespace RateDeck.LinearAlgebra;
+
+/// <summary>
+/// All eigenvalues of a symmetric band matrix (the symmetrized generator of a sparse deck) without
+/// eigenvectors, in O(N) or O(N b) memory. Native provider: dsterf_ for a tridiagonal matrix,
+/// dsbev_ for a wider band. Managed provider: the implicit QL iteration below for a tridiagonal
+/// matrix; a wider band is expanded to dense (N^2 memory, refused above
+/// <see cref="RateMatrix.DenseStateLimit"/> states).
+/// </summary>
+public static class BandEigenvalues
+{
+    /// <summary>A QL sweep count per eigenvalue beyond which the managed iteration gives up (it needs about 2).</summary>
+    private const int _maxSweepsPerValue = 60;
+
+    /// <summary>Eigenvalues of <paramref name="band"/>, ascending; <paramref name="method"/> names the routine used.</summary>
+    /// <exception cref="DenseStorageException">Managed provider, band wider than 1, and more than <see cref="RateMatrix.DenseStateLimit"/> states.</exception>
+    public static double[] Compute(SymmetricBand band, ILinearAlgebra algebra, out string method)
+    {
+        ArgumentNullException.ThrowIfNull(band);
+        ArgumentNullException.ThrowIfNull(algebra);
+        if (algebra is OpenBlasLinearAlgebra native)
+        {
+            method = band.Bandwidth <= 1 ? "dsterf_ (tridiagonal QL/QR)" : "dsbev_ (band to tridiagonal, then QL/QR)";
+            return band.Bandwidth <= 1 ? native.TridiagonalEigenvalues(band.Diagonal(), band.SubDiagonal()) : native.BandEigenvalues(band);
+        }
+
+        if (band.Bandwidth <= 1)
+        {
+            method = "managed implicit QL (tridiagonal)";
+            return Tridiagonal(band.Diagonal(), band.SubDiagonal());
+        }
+
+        if (band.Count > RateMatrix.DenseStateLimit)
+        {
+            throw new DenseStorageException(
+                $"the eigenvalues of a {band.Count}-state band matrix of bandwidth {band.Bandwidth} need the native library (dsbev_) or a dense {band.Count} x {band.Count} array, beyond the {RateMatrix.DenseStateLimit}-state limit; install OpenBLAS (Debian package libopenblas0)");
+        }
+
+        method = $"managed dense symmetric eigen-solver (bandwidth {band.Bandwidth}: no managed band reduction)";
+        var dense = MathNet.Numerics.LinearAlgebra.Double.DenseMatrix.Create(band.Count, band.Count, (i, j) => band[i, j]);
+        return algebra.SymmetricEigen(dense).Values;
+    }
+
+    /// <summary>
+    /// Eigenvalues, ascending, of the symmetric tridiagonal matrix (diagonal d, off-diagonal e) by
+    /// the implicit QL iteration with Wilkinson's shift and plane rotations, no vectors: O(N^2)
+    /// time, O(N) memory, backward stable (Golub and Van Loan, Matrix Computations, 4th ed.,
+    /// sec. 8.3; Bowdler, Martin, Reinsch and Wilkinson, Numer. Math. 11 (1968) 293; both from
+    /// memory). An off-diagonal entry counts as zero when |e_m| &lt;= eps (|d_m| + |d_(m+1)|).
+    /// </summary>
+    /// <exception cref="ArithmeticException">The iteration did not converge (it always does in practice).</exception>
+    public static double[] Tridiagonal(double[] diagonal, double[] offDiagonal)
+    {
+        ArgumentNullException.ThrowIfNull(diagonal);
+        ArgumentNullException.ThrowIfNull(offDiagonal);
+        var n = diagonal.Length;
+        var d = (double[])diagonal.Clone();
+        var e = new double[Math.Max(n, 1)];
+        Array.Copy(offDiagonal, e, Math.Min(offDiagonal.Length, Math.Max(n - 1, 0)));
+        for (var l = 0; l < n; l++)
+        {
+            for (var sweep = 0; ; sweep++)
+            {
+                var m = l;
+                while (m < n - 1 && Math.Abs(e[m]) > double.Epsilon + (2.220446049250313e-16 * (Math.Abs(d[m]) + Math.Abs(d[m + 1]))))
+                {
+                    m++;
+                }
+
+                if (m == l)
+                {
+                    break;
+                }
+
+                if (sweep == _maxSweepsPerValue)
+                {
+                    throw new ArithmeticException($"the tridiagonal QL iteration did not converge for eigenvalue {l + 1} of {n}");
+                }
+
+                Sweep(d, e, l, m);
+            }
+        }
+
+        Array.Sort(d);
+        return d;
+    }
+
+    /// <summary>One implicit QL step with Wilkinson's shift on the unreduced block l..m.</summary>
+    private static void Sweep(double[] d, double[] e, int l, int m)
+    {
+        // Shift: the eigenvalue of the leading 2 x 2 block nearer d_l.
+        var g = (d[l + 1] - d[l]) / (2.0 * e[l]);
+        var r = Hypot(g, 1.0);
+        g = d[m] - d[l] + (e[l] / (g + Math.CopySign(r, g)));
+        double s = 1.0, c = 1.0, p = 0.0;
+        for (var i = m - 1; i >= l; i--)
+        {
+            var f = s * e[i];
+            var b = c * e[i];
+            r = Hypot(f, g);
+            e[i + 1] = r;
+            if (r == 0.0)
+            {
+                // The block split at i + 1: undo the partial shift and deflate.
+                d[i + 1] -= p;
+                e[m] = 0.0;
+                return;
+            }
+
+            s = f / r;
+            c = g / r;
+            g = d[i + 1] - p;
+            r = ((d[i] - g) * s) + (2.0 * c * b);
+            p = s * r;
+            d[i + 1] = g + p;
+            g = (c * r) - b;
+        }
+
+        d[l] -= p;
+        e[l] = g;
+        e[m] = 0.0;
+    }
+
+    private static double Hypot(double a, double b)
+    {
+        a = Math.Abs(a);
+        b = Math.Abs(b);
+        if (a < b)
+        {
+            (a, b) = (b, a);
+        }
+
+        if (a == 0)
+        {
+            return 0;
+        }
+
+        var ratio = b / a;
+        return a * Math.Sqrt(1 + (ratio * ratio));
+    }
+}
