@@ -41,7 +41,10 @@ public sealed class LegendreTransform
     public double Lagrangian(double q, double v) => _lagrangian(q, v);
 
     /// <summary>p = dL/dv at (q, v); NaN where L is not finite around v.</summary>
-    public double Momentum(double q, double v)
+    public double Momentum(double q, double v) => MomentumWithError(q, v).Value;
+
+    /// <summary>p = dL/dv at (q, v) and the extrapolation's estimate of its absolute error.</summary>
+    internal (double Value, double Error) MomentumWithError(double q, double v)
         => RichardsonDerivative.Velocity(_lagrangian, q, v, StepFraction * Math.Max(Math.Abs(v), VelocityScale));
 
     /// <summary>

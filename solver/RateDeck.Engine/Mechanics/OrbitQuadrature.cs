@@ -14,11 +14,12 @@ namespace RateDeck.Mechanics;
 /// </summary>
 /// <remarks>
 /// The rounding floor: each value of L carries an error of about eps |L|, so the residual
-/// h(q, v) - E is known to e = 4 eps max(|E|, |U(q)|). Since dp/dE = 1/v at fixed q, and
-/// d(1/v)/dE = -1 / (v^3 d2L/dv2), close to -1 / (2 v (E - U)), the sums of
-/// jacobian * e / |v| and jacobian * e / (2 |v| (E - U)) bound the rounding error of J and T. The
-/// bound grows with the number of nodes near the turning points, and is large when L holds a big
-/// constant (|E| much larger than the depth of the well) or the orbit is near a separatrix.
+/// h(q, v) - E is known to e = 4 eps max(|E|, |U(q)|) + |v| dp, dp the extrapolation's error
+/// estimate for p. Since dp/dE = 1/v at fixed q, and d(1/v)/dE = -1 / (v^3 d2L/dv2), close to
+/// -1 / (2 v (E - U)), the sums of jacobian (e / |v| + dp) and jacobian e / (2 |v| (E - U)) estimate
+/// the rounding error of J and T. The estimate grows with the number of nodes near the turning
+/// points, and is large when L holds a big constant (|E| much larger than the depth of the well)
+/// or the orbit is near a separatrix.
 /// </remarks>
 internal static class OrbitQuadrature
 {
@@ -129,12 +130,18 @@ internal static class OrbitQuadrature
                 var depth = energy - potential;
                 var forward = Speed(q, depth, 1, forwardGuess);
                 var backward = Speed(q, depth, -1, backwardGuess);
-                var inverseSpeeds = 1 / forward - 1 / backward;
-                action += jacobian * (_transform.Momentum(q, forward) - _transform.Momentum(q, backward));
-                period += jacobian * inverseSpeeds;
-                var rounding = jacobian * inverseSpeeds * Rounding * Math.Max(Math.Abs(energy), Math.Abs(potential));
-                actionError += rounding;
-                periodError += rounding / (2 * depth);
+                var (forwardMomentum, forwardMomentumError) = _transform.MomentumWithError(q, forward);
+                var (backwardMomentum, backwardMomentumError) = _transform.MomentumWithError(q, backward);
+                action += jacobian * (forwardMomentum - backwardMomentum);
+                period += jacobian * (1 / forward - 1 / backward);
+
+                // The residual h - E is off by the rounding of L plus |v| times the error of p; the
+                // momentum error that induces is that over |v| (dp/dE = 1/v at fixed q).
+                var rounding = Rounding * Math.Max(Math.Abs(energy), Math.Abs(potential));
+                var forwardInduced = (rounding + forward * forwardMomentumError) / forward;
+                var backwardInduced = (rounding - backward * backwardMomentumError) / -backward;
+                actionError += jacobian * (forwardInduced + forwardMomentumError + backwardInduced + backwardMomentumError);
+                periodError += jacobian * (forwardInduced + backwardInduced) / (2 * depth);
                 (forwardGuess, backwardGuess) = (forward, backward);
             }
 

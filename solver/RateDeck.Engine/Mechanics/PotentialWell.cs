@@ -141,8 +141,8 @@ internal sealed class PotentialWell
     private double Root(double below, double above, double energy)
     {
         double Residual(double q) => U(q) - energy;
-        var tolerance = 4 * double.Epsilon + 8.9e-16 * Math.Max(Math.Abs(below), Math.Abs(above));
-        return ScalarSolvers.FindRoot(Residual, below, above, Residual(below), Residual(above), tolerance);
+        var root = ScalarSolvers.FindRoot(Residual, below, above, Residual(below), Residual(above), 0);
+        return ScalarSolvers.PolishRoot(Residual, root);
     }
 
     private static string SideName(int side) => side > 0 ? "high" : "low";

@@ -21,16 +21,17 @@ internal static class RichardsonDerivative
     /// singular; keeping the first step below a third of the distance to that edge keeps the
     /// tableau inside the disc where L is analytic, so the extrapolation converges. Returns NaN
     /// when even a step 2^-40 times the first leaves the domain: v is then at or past the edge
-    /// (steps below that would round v +- 3 step back onto the edge itself).
+    /// (steps below that would round v +- 3 step back onto the edge itself). The error is the
+    /// tableau's own estimate: the change between the chosen entry and its neighbours.
     /// </summary>
-    public static double Velocity(Func<double, double, double> lagrangian, double q, double v, double step)
+    public static (double Value, double Error) Velocity(Func<double, double, double> lagrangian, double q, double v, double step)
     {
         var h = step;
         for (var halving = 0; !InsideDomain(lagrangian, q, v, 3 * h); halving++)
         {
             if (halving == DomainHalvings)
             {
-                return double.NaN;
+                return (double.NaN, double.NaN);
             }
 
             h *= 0.5;
@@ -72,7 +73,7 @@ internal static class RichardsonDerivative
             current = swap;
         }
 
-        return best;
+        return (best, bestError == double.MaxValue ? Math.Abs(best) : bestError);
     }
 
     private static bool InsideDomain(Func<double, double, double> lagrangian, double q, double v, double reach)

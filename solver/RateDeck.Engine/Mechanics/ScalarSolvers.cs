@@ -103,6 +103,59 @@ internal static class ScalarSolvers
     }
 
     /// <summary>
+    /// Narrows a root estimate <paramref name="x"/> (from <see cref="FindRoot"/>, good to a few
+    /// units in the last place) to the double next to the sign change of <paramref name="f"/> with
+    /// the smaller |f|: a bracket of adjacent doubles by outward steps of 1, 2, 4, ... ulps, then
+    /// bisection. Turning points need this: an orbit's period is sensitive to them near the ends.
+    /// Returns x unchanged when no sign change lies within 2^20 ulps.
+    /// </summary>
+    public static double PolishRoot(Func<double, double> f, double x)
+    {
+        var fx = f(x);
+        if (fx == 0 || !double.IsFinite(x))
+        {
+            return x;
+        }
+
+        var ulp = Math.BitIncrement(Math.Abs(x)) - Math.Abs(x);
+        for (var reach = ulp; reach <= 1048576 * ulp; reach *= 2)
+        {
+            foreach (var other in (ReadOnlySpan<double>)[x + reach, x - reach])
+            {
+                var fo = f(other);
+                if ((fo > 0) != (fx > 0) || fo == 0)
+                {
+                    return Bisect(f, x, fx, other, fo);
+                }
+            }
+        }
+
+        return x;
+    }
+
+    private static double Bisect(Func<double, double> f, double a, double fa, double b, double fb)
+    {
+        while (true)
+        {
+            var middle = 0.5 * (a + b);
+            if (middle == a || middle == b || fb == 0)
+            {
+                return Math.Abs(fa) <= Math.Abs(fb) ? a : b;
+            }
+
+            var fm = f(middle);
+            if ((fm > 0) == (fa > 0) && fm != 0)
+            {
+                (a, fa) = (middle, fm);
+            }
+            else
+            {
+                (b, fb) = (middle, fm);
+            }
+        }
+    }
+
+    /// <summary>
     /// The minimum of <paramref name="f"/> in [a, c] given an interior point b with f(b) below both
     /// ends: golden-section steps with parabolic interpolation. Stops when the bracket is below
     /// <paramref name="relativeTolerance"/> |x| + <paramref name="absoluteTolerance"/>; a smooth
