@@ -9,7 +9,7 @@ namespace RateDeck.Mechanics;
 /// </summary>
 internal static class GaussLegendre
 {
-    private const int MaxNewtonSteps = 100;
+    private const int _maxNewtonSteps = 100;
     private static readonly ConcurrentDictionary<int, (double[] Nodes, double[] Weights)> _rules = new();
 
     /// <summary>The n-point rule, nodes ascending.</summary>
@@ -24,7 +24,7 @@ internal static class GaussLegendre
             var x = Math.Cos(Math.PI * (i + 0.75) / (n + 0.5));
             // Newton converges quadratically: once a step is below 1e-15 one more reaches rounding.
             var converged = false;
-            for (var step = 0; step < MaxNewtonSteps; step++)
+            for (var step = 0; step < _maxNewtonSteps; step++)
             {
                 var (value, slope) = Legendre(n, x);
                 var dx = value / slope;

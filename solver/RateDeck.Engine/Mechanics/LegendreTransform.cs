@@ -17,8 +17,8 @@ namespace RateDeck.Mechanics;
 /// </remarks>
 public sealed class LegendreTransform
 {
-    private const double StepFraction = 1.0;
-    private const int MaxDoublings = 2100;
+    private const double _stepFraction = 1.0;
+    private const int _maxDoublings = 2100;
     private readonly Func<double, double, double> _lagrangian;
 
     /// <summary>Wraps <paramref name="lagrangian"/>; <paramref name="velocityScale"/> is a typical |v| of the motion (positive).</summary>
@@ -45,7 +45,7 @@ public sealed class LegendreTransform
 
     /// <summary>p = dL/dv at (q, v) and the extrapolation's estimate of its absolute error.</summary>
     internal (double Value, double Error) MomentumWithError(double q, double v)
-        => RichardsonDerivative.Velocity(_lagrangian, q, v, StepFraction * Math.Max(Math.Abs(v), VelocityScale));
+        => RichardsonDerivative.Velocity(_lagrangian, q, v, _stepFraction * Math.Max(Math.Abs(v), VelocityScale));
 
     /// <summary>
     /// h(q, v) = v dL/dv - L, the value of the Hamiltonian at the momentum of velocity v.
@@ -77,7 +77,7 @@ public sealed class LegendreTransform
         }
 
         double inner = 0, innerResidual = atRest - momentum, outer = direction * VelocityScale;
-        for (var doubling = 0; doubling < MaxDoublings && double.IsFinite(outer); doubling++)
+        for (var doubling = 0; doubling < _maxDoublings && double.IsFinite(outer); doubling++)
         {
             var outerResidual = Residual(outer);
             if (direction * outerResidual >= 0)

@@ -23,9 +23,9 @@ namespace RateDeck.Mechanics;
 /// </remarks>
 internal static class OrbitQuadrature
 {
-    private const int FirstRule = 32;
-    private const int MaxSteps = 2100;
-    private const double Rounding = 4 * 2.220446049250313e-16;
+    private const int _firstRule = 32;
+    private const int _maxSteps = 2100;
+    private const double _rounding = 4 * 2.220446049250313e-16;
 
     /// <summary>
     /// J, T and the estimated relative error of both for the orbit of <paramref name="energy"/>
@@ -84,8 +84,8 @@ internal static class OrbitQuadrature
                 return default;
             }
 
-            var coarse = Rule(FirstRule, turning, width, scale);
-            for (var n = 2 * FirstRule; n <= options.MaxNodes; n *= 2)
+            var coarse = Rule(_firstRule, turning, width, scale);
+            for (var n = 2 * _firstRule; n <= options.MaxNodes; n *= 2)
             {
                 var fine = Rule(n, turning, width, scale);
                 var actionChange = Math.Abs(fine.Action - coarse.Action);
@@ -137,7 +137,7 @@ internal static class OrbitQuadrature
 
                 // The residual h - E is off by the rounding of L plus |v| times the error of p; the
                 // momentum error that induces is that over |v| (dp/dE = 1/v at fixed q).
-                var rounding = Rounding * Math.Max(Math.Abs(energy), Math.Abs(potential));
+                var rounding = _rounding * Math.Max(Math.Abs(energy), Math.Abs(potential));
                 var forwardInduced = (rounding + forward * forwardMomentumError) / forward;
                 var backwardInduced = (rounding - backward * backwardMomentumError) / -backward;
                 actionError += jacobian * (forwardInduced + forwardMomentumError + backwardInduced + backwardMomentumError);
@@ -184,7 +184,7 @@ internal static class OrbitQuadrature
             for (var step = 0; (r < 0) == rising; step++)
             {
                 // Halving ends (h tends to U(q) < E as v goes to 0); doubling ends unless h is bounded in v.
-                if (step == MaxSteps)
+                if (step == _maxSteps)
                 {
                     throw new MechanicsException(
                         FormattableString.Invariant($"at energy E = {energy} (state {stateIndex + 1}) no velocity reaches the energy at q = {q}: v dL/dv - L must grow without bound in |v| (L convex in v)"),

@@ -9,10 +9,10 @@ namespace RateDeck.Mechanics;
 /// </summary>
 internal sealed class PotentialWell
 {
-    private const double Golden = 1.618033988749895;
-    private const int MaxExpansions = 1500;
-    private const int MaxHalvings = 200;
-    private const double MinimumRelativeTolerance = 1e-10;
+    private const double _golden = 1.618033988749895;
+    private const int _maxExpansions = 1500;
+    private const int _maxHalvings = 200;
+    private const double _minimumRelativeTolerance = 1e-10;
     private readonly Func<double, double, double> _lagrangian;
     private readonly double _firstStep;
 
@@ -46,9 +46,9 @@ internal sealed class PotentialWell
             var x1 = b;
             var (x2, f2) = fa < fc ? (a, fa) : (c, fc);
             var bracketed = false;
-            for (var step = 0; step < MaxExpansions && !bracketed; step++)
+            for (var step = 0; step < _maxExpansions && !bracketed; step++)
             {
-                var x3 = x2 + Golden * (x2 - x1);
+                var x3 = x2 + _golden * (x2 - x1);
                 if (!double.IsFinite(x3))
                 {
                     break;
@@ -74,7 +74,7 @@ internal sealed class PotentialWell
         }
 
         var (bottom, bottomValue) = ScalarSolvers.Minimize(
-            U, a, b, c, fb, MinimumRelativeTolerance, 1e-12 * Math.Abs(c - a));
+            U, a, b, c, fb, _minimumRelativeTolerance, 1e-12 * Math.Abs(c - a));
         return new PotentialWell(lagrangian, bottom, bottomValue, 0.5 * (searchHigh - searchLow));
     }
 
@@ -96,7 +96,7 @@ internal sealed class PotentialWell
 
         // The bottom is known to about 1e-8 only: make the first sample rise above it, so that the
         // outward walk cannot start inside a neighbouring, deeper well.
-        for (var halving = 0; halving < MaxHalvings && !(U(Bottom + side * step) > BottomValue); halving++)
+        for (var halving = 0; halving < _maxHalvings && !(U(Bottom + side * step) > BottomValue); halving++)
         {
             step *= 0.5;
         }
@@ -121,7 +121,7 @@ internal sealed class PotentialWell
             if (outerValue < innerValue)
             {
                 var (top, topValue) = ScalarSolvers.Minimize(
-                    q => -U(q), previous, inner, outer, -innerValue, MinimumRelativeTolerance, 1e-12 * step);
+                    q => -U(q), previous, inner, outer, -innerValue, _minimumRelativeTolerance, 1e-12 * step);
                 topValue = -topValue;
                 if (topValue < energy)
                 {

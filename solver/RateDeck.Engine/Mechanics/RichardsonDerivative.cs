@@ -9,11 +9,11 @@ namespace RateDeck.Mechanics;
 /// </summary>
 internal static class RichardsonDerivative
 {
-    private const int Rows = 10;
-    private const double Contraction = 1.4;
-    private const double ContractionSquared = Contraction * Contraction;
-    private const double Safety = 2.0;
-    private const int DomainHalvings = 40;
+    private const int _rows = 10;
+    private const double _contraction = 1.4;
+    private const double _contractionSquared = _contraction * _contraction;
+    private const double _safety = 2.0;
+    private const int _domainHalvings = 40;
 
     /// <summary>
     /// dL/dv at (q, v), starting from <paramref name="step"/>, halved until L is finite at v +- 3 step.
@@ -29,7 +29,7 @@ internal static class RichardsonDerivative
         var h = step;
         for (var halving = 0; !InsideDomain(lagrangian, q, v, 3 * h); halving++)
         {
-            if (halving == DomainHalvings)
+            if (halving == _domainHalvings)
             {
                 return (double.NaN, double.NaN);
             }
@@ -38,20 +38,20 @@ internal static class RichardsonDerivative
         }
 
         var difference = CentralDifference(lagrangian, q, v, h);
-        Span<double> previous = stackalloc double[Rows];
-        Span<double> current = stackalloc double[Rows];
+        Span<double> previous = stackalloc double[_rows];
+        Span<double> current = stackalloc double[_rows];
         previous[0] = difference;
         var best = difference;
         var bestError = double.MaxValue;
-        for (var row = 1; row < Rows; row++)
+        for (var row = 1; row < _rows; row++)
         {
-            h /= Contraction;
+            h /= _contraction;
             current[0] = CentralDifference(lagrangian, q, v, h);
-            var factor = ContractionSquared;
+            var factor = _contractionSquared;
             for (var column = 1; column <= row; column++)
             {
                 current[column] = (current[column - 1] * factor - previous[column - 1]) / (factor - 1);
-                factor *= ContractionSquared;
+                factor *= _contractionSquared;
                 var error = Math.Max(
                     Math.Abs(current[column] - current[column - 1]),
                     Math.Abs(current[column] - previous[column - 1]));
@@ -63,7 +63,7 @@ internal static class RichardsonDerivative
             }
 
             // Higher orders have stopped helping: rounding now grows faster than truncation falls.
-            if (Math.Abs(current[row] - previous[row - 1]) >= Safety * bestError)
+            if (Math.Abs(current[row] - previous[row - 1]) >= _safety * bestError)
             {
                 break;
             }

@@ -6,8 +6,9 @@ namespace RateDeck.Mechanics;
 /// </summary>
 internal static class ScalarSolvers
 {
-    private const int MaxIterations = 300;
-    private const double GoldenSection = 0.3819660112501051;
+    private const int _maxIterations = 300;
+    private const double _machineEpsilon = 2.220446049250313e-16;
+    private const double _goldenSection = 0.3819660112501051;
 
     /// <summary>
     /// A root of <paramref name="f"/> in [a, b], where f(a) and f(b) differ in sign; stops when the
@@ -28,7 +29,7 @@ internal static class ScalarSolvers
         }
 
         double c = b, fc = fb, d = b - a, e = d;
-        for (var iteration = 0; iteration < MaxIterations; iteration++)
+        for (var iteration = 0; iteration < _maxIterations; iteration++)
         {
             if ((fb > 0) == (fc > 0))
             {
@@ -44,7 +45,7 @@ internal static class ScalarSolvers
                 (fa, fb, fc) = (fb, fc, fb);
             }
 
-            var tol = 2 * double.Epsilon + 2 * Epsilon * Math.Abs(b) + 0.5 * tolerance;
+            var tol = 2 * double.Epsilon + 2 * _machineEpsilon * Math.Abs(b) + 0.5 * tolerance;
             var half = 0.5 * (c - b);
             if (Math.Abs(half) <= tol || fb == 0)
             {
@@ -167,7 +168,7 @@ internal static class ScalarSolvers
         var low = Math.Min(a, c);
         var high = Math.Max(a, c);
         double x = b, w = b, v = b, fx = fb, fw = fb, fv = fb, d = 0, e = 0;
-        for (var iteration = 0; iteration < MaxIterations; iteration++)
+        for (var iteration = 0; iteration < _maxIterations; iteration++)
         {
             var middle = 0.5 * (low + high);
             var tol1 = relativeTolerance * Math.Abs(x) + absoluteTolerance;
@@ -207,7 +208,7 @@ internal static class ScalarSolvers
             if (golden)
             {
                 e = x >= middle ? low - x : high - x;
-                d = GoldenSection * e;
+                d = _goldenSection * e;
             }
 
             var u = Math.Abs(d) >= tol1 ? x + d : x + Math.CopySign(tol1, d);
@@ -252,6 +253,4 @@ internal static class ScalarSolvers
 
         return (x, fx);
     }
-
-    private const double Epsilon = 2.220446049250313e-16;
 }

@@ -11,24 +11,24 @@ namespace RateDeck.Tests.Mechanics;
 /// </summary>
 public class HarmonicOscillatorTests
 {
-    private const double Mass = 1.7;
-    private const double Omega = 2.3;
-    private const double Planck = 0.05;
+    private const double _mass = 1.7;
+    private const double _omega = 2.3;
+    private const double _planck = 0.05;
 
-    private static double Lagrangian(double q, double v) => 0.5 * Mass * v * v - 0.5 * Mass * Omega * Omega * q * q;
+    private static double Lagrangian(double q, double v) => 0.5 * _mass * v * v - 0.5 * _mass * _omega * _omega * q * q;
 
     [Fact]
     public void Action_IsTwoPiEnergyOverOmega_AndPeriodIsTwoPiOverOmega()
     {
         double[] energies = [1e-3, 0.1, 1, 7.5, 300];
-        var result = LagrangianMechanics.Derive(Lagrangian, energies, Planck);
+        var result = LagrangianMechanics.Derive(Lagrangian, energies, _planck);
 
         for (var i = 0; i < energies.Length; i++)
         {
-            var amplitude = Math.Sqrt(2 * energies[i] / (Mass * Omega * Omega));
-            MechanicsAssert.Relative(2 * Math.PI * energies[i] / Omega, result.Actions[i], 1e-12);
-            MechanicsAssert.Relative(2 * Math.PI / Omega, result.Periods[i], 1e-12);
-            MechanicsAssert.Relative(2 * Math.PI / (Omega * Planck), result.Weights[i], 1e-12);
+            var amplitude = Math.Sqrt(2 * energies[i] / (_mass * _omega * _omega));
+            MechanicsAssert.Relative(2 * Math.PI * energies[i] / _omega, result.Actions[i], 1e-12);
+            MechanicsAssert.Relative(2 * Math.PI / _omega, result.Periods[i], 1e-12);
+            MechanicsAssert.Relative(2 * Math.PI / (_omega * _planck), result.Weights[i], 1e-12);
             MechanicsAssert.Relative(-amplitude, result.TurningPointsLow[i], 1e-13);
             MechanicsAssert.Relative(amplitude, result.TurningPointsHigh[i], 1e-13);
         }
@@ -38,10 +38,10 @@ public class HarmonicOscillatorTests
     public void ErrorEstimate_IsTinyAndCoversTheActualError()
     {
         double[] energies = [0.01, 1, 100];
-        var result = LagrangianMechanics.Derive(Lagrangian, energies, Planck);
+        var result = LagrangianMechanics.Derive(Lagrangian, energies, _planck);
         for (var i = 0; i < energies.Length; i++)
         {
-            var actual = Math.Abs(result.Periods[i] - 2 * Math.PI / Omega) / (2 * Math.PI / Omega);
+            var actual = Math.Abs(result.Periods[i] - 2 * Math.PI / _omega) / (2 * Math.PI / _omega);
             Assert.True(result.RelativeErrors[i] < 1e-12);
             Assert.True(actual <= result.RelativeErrors[i], FormattableString.Invariant($"error {actual:E2} above estimate {result.RelativeErrors[i]:E2}"));
         }
@@ -51,8 +51,8 @@ public class HarmonicOscillatorTests
     public void WellAwayFromTheSearchInterval_IsFoundDownhill()
     {
         // The same oscillator centred at q = 40: the search walks downhill from [-1, 1].
-        var result = LagrangianMechanics.Derive((q, v) => Lagrangian(q - 40, v), [2.0], Planck);
-        MechanicsAssert.Relative(2 * Math.PI * 2.0 / Omega, result.Actions[0], 1e-10);
-        MechanicsAssert.Relative(40 + Math.Sqrt(4 / (Mass * Omega * Omega)), result.TurningPointsHigh[0], 1e-13);
+        var result = LagrangianMechanics.Derive((q, v) => Lagrangian(q - 40, v), [2.0], _planck);
+        MechanicsAssert.Relative(2 * Math.PI * 2.0 / _omega, result.Actions[0], 1e-10);
+        MechanicsAssert.Relative(40 + Math.Sqrt(4 / (_mass * _omega * _omega)), result.TurningPointsHigh[0], 1e-13);
     }
 }

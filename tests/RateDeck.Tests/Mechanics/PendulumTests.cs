@@ -14,15 +14,15 @@ namespace RateDeck.Tests.Mechanics;
 /// </summary>
 public class PendulumTests
 {
-    private const double Mass = 0.3;
-    private const double Length = 0.7;
-    private const double Gravity = 9.81;
-    private static readonly double _omega0 = Math.Sqrt(Gravity / Length);
+    private const double _mass = 0.3;
+    private const double _length = 0.7;
+    private const double _gravity = 9.81;
+    private static readonly double _omega0 = Math.Sqrt(_gravity / _length);
 
     /// <summary>The Lagrangian in the form of the brief: its potential -m g l cos q is measured from the pivot.</summary>
-    private static double Lagrangian(double q, double v) => 0.5 * Mass * Length * Length * v * v + Mass * Gravity * Length * Math.Cos(q);
+    private static double Lagrangian(double q, double v) => 0.5 * _mass * _length * _length * v * v + _mass * _gravity * _length * Math.Cos(q);
 
-    private static double Energy(double amplitude) => -Mass * Gravity * Length * Math.Cos(amplitude);
+    private static double Energy(double amplitude) => -_mass * _gravity * _length * Math.Cos(amplitude);
 
     private static double Radians(double degrees) => degrees * Math.PI / 180;
 
@@ -77,7 +77,7 @@ public class PendulumTests
         var amplitude = Radians(degrees);
         var m = Parameter(amplitude);
         var result = LagrangianMechanics.Derive(Lagrangian, [Energy(amplitude)], 1.0);
-        var expected = 16 * Mass * Length * Length * _omega0 * (EllipticIntegrals.E(m) - (1 - m) * EllipticIntegrals.K(m));
+        var expected = 16 * _mass * _length * _length * _omega0 * (EllipticIntegrals.E(m) - (1 - m) * EllipticIntegrals.K(m));
         MechanicsAssert.Relative(expected, result.Actions[0], 1e-11);
     }
 
@@ -87,9 +87,9 @@ public class PendulumTests
         // The same pendulum with its potential 2 m g l sin^2(q / 2) measured from the bottom: no large
         // constant in L, so at 0.1 degree the period stays good to rounding (the brief's form gives 4e-10).
         var amplitude = Radians(0.1);
-        var weight = Mass * Gravity * Length;
+        var weight = _mass * _gravity * _length;
         var result = LagrangianMechanics.Derive(
-            (q, v) => 0.5 * Mass * Length * Length * v * v - 2 * weight * Math.Pow(Math.Sin(0.5 * q), 2),
+            (q, v) => 0.5 * _mass * _length * _length * v * v - 2 * weight * Math.Pow(Math.Sin(0.5 * q), 2),
             [2 * weight * Parameter(amplitude)],
             1.0);
         MechanicsAssert.Relative(4 * EllipticIntegrals.K(Parameter(amplitude)) / _omega0, result.Periods[0], 1e-13);
@@ -112,7 +112,7 @@ public class PendulumTests
     [Fact]
     public void EnergyOverTheTop_IsRefusedAsUnbounded()
     {
-        var aboveSeparatrix = 1.2 * Mass * Gravity * Length;
+        var aboveSeparatrix = 1.2 * _mass * _gravity * _length;
         var error = Assert.Throws<MechanicsException>(
             () => LagrangianMechanics.Derive(Lagrangian, [Energy(Radians(30)), aboveSeparatrix], 1.0));
         Assert.Equal(1, error.StateIndex);
