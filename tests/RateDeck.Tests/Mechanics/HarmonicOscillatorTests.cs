@@ -6,8 +6,8 @@ namespace RateDeck.Tests.Mechanics;
 /// <summary>
 /// L = m v^2/2 - m w^2 q^2/2. Action variable I = (1/2 pi) closed integral of p dq = E / w, so
 /// J = 2 pi E / w, and T = dJ/dE = 2 pi / w for every amplitude: the weights g = T / h are constant
-/// (Landau and Lifshitz, Mechanics, 3rd ed., sec. 49 on action variables and sec. 21 on the
-/// oscillator; cited from memory).
+/// (Landau and Lifshitz, Mechanics, 3rd ed., sec. 21 on the oscillator and sec. 49-50 on the action
+/// variable; cited from memory).
 /// </summary>
 public class HarmonicOscillatorTests
 {
