@@ -39,26 +39,19 @@ public sealed class SteadyVerb : IVerb
 
         if (args.Has("--json"))
         {
-            JsonSummary.Write(context.Out, new
-            {
-                tool_version = ToolInfo.Version,
-                deck = loaded.Deck.SourcePath,
-                deck_sha256 = loaded.Deck.Sha256,
-                overrides = loaded.Deck.Overrides,
-                linear_algebra = loaded.Algebra.Name,
-                states = loaded.States.Count,
-                kind = steady.Kind.ToString().ToLowerInvariant(),
-                exists = steady.Exists,
-                residual = steady.Residual,
-                approach_time = steady.ApproachTime,
-                total_population = steady.Populations?.Sum(),
-                lost_mass = steady.LostMass,
-                class_masses = steady.ClassMasses.Select(c => new { states = c.Class.Labels, mass = c.Mass }).ToArray(),
-                labels = loaded.States.Labels,
-                populations = steady.Populations,
-                message = steady.Message,
-                file,
-            });
+            var fields = VerbSupport.JsonFields(loaded);
+            fields["kind"] = steady.Kind.ToString().ToLowerInvariant();
+            fields["exists"] = steady.Exists;
+            fields["residual"] = steady.Residual;
+            fields["approach_time"] = steady.ApproachTime;
+            fields["total_population"] = steady.Populations?.Sum();
+            fields["lost_mass"] = steady.LostMass;
+            fields["class_masses"] = steady.ClassMasses.Select(c => new { states = c.Class.Labels, mass = c.Mass }).ToArray();
+            fields["labels"] = loaded.States.Labels;
+            fields["populations"] = steady.Populations;
+            fields["message"] = steady.Message;
+            fields["file"] = file;
+            JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
         else
