@@ -61,6 +61,25 @@ public sealed class RunVerbTests
     }
 
     [Fact]
+    public void Run_WithAllowUnstable_RunsTheUnstableStepAndShowsItDiverge()
+    {
+        using var folder = new TempFolder();
+        // Forward Euler with dt = t_end / 4 = 1.25e-3 on four linear outputs (every step lands on
+        // an output, none is shortened): dt rho = 3.5 multiplies the fast mode by |1 - 3.5| = 2.5 per
+        // step, about 40 after four (textbook stability region of forward Euler, |1 + lambda dt| <= 1).
+        var (_, json, _) = CliRunner.Run("stiffness", CliRunner.DemoDeck("two-level.toml"), "--json");
+        var limit = JsonDocument.Parse(json).RootElement.GetProperty("dt_euler_stable").GetDouble();
+        const string dt = "0.00125";
+        Assert.True(double.Parse(dt, CultureInfo.InvariantCulture) > 1.5 * limit);
+
+        var (code, output, error) = CliRunner.Run("run", CliRunner.DemoDeck("two-level.toml"), "--method", "euler", "--dt", dt, "--allow-unstable",
+            "--set", "run.outputs=4", "--set", "run.spacing=linear", "--json", "--no-plots", "--out", folder.Path);
+
+        Assert.True(code == ExitCodes.Success, error);
+        Assert.True(JsonDocument.Parse(output).RootElement.GetProperty("max_abs_difference").GetDouble() > 1);
+    }
+
+    [Fact]
     public void Run_OnPumpedCascade_ReachesTheDrivenSteadyState()
     {
         using var folder = new TempFolder();
