@@ -1,8 +1,16 @@
+using System.Globalization;
 using RateDeck.Bench;
 
-if (args is ["expressions", ..])
+var size = args.Length > 1 ? int.Parse(args[1], CultureInfo.InvariantCulture) : 2000;
+switch (args.FirstOrDefault())
 {
-    ExpressionBenchmark.Run(args.Length > 1 ? int.Parse(args[1], System.Globalization.CultureInfo.InvariantCulture) : 2000);
-    return;
+    case "expressions":
+        ExpressionBenchmark.Run(size);
+        break;
+    case "kernel-assembly":
+        KernelAssemblyBenchmark.Run(size);
+        break;
+    default:
+        Console.WriteLine("usage: RateDeck.Bench expressions|kernel-assembly [N]   (N defaults to 2000)");
+        break;
 }
-Console.WriteLine("benchmarks arrive with the native linear-algebra work");
