@@ -97,7 +97,7 @@ public static class StateSpaceBuilder
 
     /// <summary>
     /// Weights g(E) = T(E) / h from the deck's Lagrangian, through the mechanics stage. The
-    /// Lagrangian sees <c>q</c>, <c>v</c>, <c>kT</c>, then the parameters in ordinal order.
+    /// Lagrangian sees <c>q</c>, <c>v</c>, and kT and the parameters bound as constants.
     /// </summary>
     private static double[] MechanicsLogWeights(Deck deck, MechanicsWeights request, double[] energies, MechanicsWeightDeriver? mechanics)
     {
@@ -111,7 +111,7 @@ public static class StateSpaceBuilder
             throw new DeckException(request.Span, "weights from mechanics need the mechanics stage, which this build does not have; give the weights per state or by dimension");
         }
 
-        var scope = ExpressionScope.Create(deck, "q", "v", "kT");
+        var scope = ExpressionScope.Create(deck, "q", "v");
         var compiled = scope.Compile(spec.Lagrangian, spec.Span);
         double Lagrangian(double q, double v)
         {
@@ -119,7 +119,6 @@ public static class StateSpaceBuilder
             var values = scope.NewValues();
             values[0] = q;
             values[1] = v;
-            values[2] = deck.KT;
             return compiled.Evaluate(values);
         }
 
