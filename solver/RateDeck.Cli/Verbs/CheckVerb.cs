@@ -18,7 +18,7 @@ public sealed class CheckVerb : IVerb
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        var loaded = VerbSupport.Load(args, context);
+        var loaded = VerbSupport.Load(args);
         var report = MatrixChecks.Check(loaded.Rates, loaded.Algebra);
         var labels = loaded.States.Labels;
         if (args.Has("--json"))

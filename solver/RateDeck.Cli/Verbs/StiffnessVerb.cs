@@ -25,7 +25,7 @@ public sealed class StiffnessVerb : IVerb
     public int Execute(ParsedArguments args, VerbContext context)
     {
         var method = VerbSupport.Method(args);
-        var loaded = VerbSupport.Load(args, context);
+        var loaded = VerbSupport.Load(args);
         var dt = args.PositiveNumber("--dt");
         var endTime = args.PositiveNumber("--t-end") ?? loaded.Deck.Run.EndTime;
         var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);

@@ -9,12 +9,24 @@ namespace RateDeck.Cli.Verbs;
 internal static class VerbSupport
 {
     /// <summary>Loads the deck named on the command line through the pipeline with the provider asked for.</summary>
-    public static LoadedDeck Load(ParsedArguments args, VerbContext context)
+    public static LoadedDeck Load(ParsedArguments args)
     {
-        _ = context;
-        var algebra = LinearAlgebraProviders.Default;
+        ILinearAlgebra algebra;
+        try
+        {
+            algebra = LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
+        }
+        catch (LinearAlgebraChoiceException e)
+        {
+            throw new UsageException(e.Message);
+        }
+
         return DeckPipeline.Load(args.DeckPath, args.Overrides, algebra);
     }
+
+    /// <summary>The output folder: <c>--out</c>, else <c>ratedeck-out/&lt;deck file name without extension&gt;</c>.</summary>
+    public static string OutputFolder(ParsedArguments args, Deck deck) =>
+        args.Value("--out") ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(deck.SourcePath));
 
     /// <summary>The first lines of every summary: which deck, how many states, which provider.</summary>
     public static void WriteDeckLine(TextWriter output, LoadedDeck loaded)

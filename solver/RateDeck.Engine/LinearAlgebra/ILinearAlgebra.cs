@@ -14,10 +14,17 @@ public interface ILinearAlgebra
     /// <summary>A short name for summaries, e.g. "managed" or "native (libopenblas.so.0)".</summary>
     string Name { get; }
 
-    /// <summary>Eigen-decomposition of a real symmetric matrix: A = V diag(values) V^T, values ascending.</summary>
+    /// <summary>
+    /// Eigen-decomposition of a real symmetric matrix: A = V diag(values) V^T, values ascending.
+    /// Each eigenvector's sign is arbitrary, and within a repeated eigenvalue only the eigenspace is determined.
+    /// </summary>
     SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric);
 
-    /// <summary>Eigenvalues and right eigenvectors of a general real matrix.</summary>
+    /// <summary>
+    /// Eigenvalues and right eigenvectors of a general real matrix, sorted by ascending real part, then
+    /// ascending imaginary part (so a conjugate pair is listed a - ib, a + ib). Eigenvectors have unit
+    /// 2-norm and are determined up to a complex phase.
+    /// </summary>
     GeneralEigenDecomposition GeneralEigen(DenseMatrix matrix);
 
     /// <summary>C = op(A) op(B), op being the transpose when asked.</summary>

@@ -1,7 +1,5 @@
-using System.Numerics;
 using MathNet.Numerics.LinearAlgebra;
 using MathNet.Numerics.LinearAlgebra.Double;
-using ComplexDense = MathNet.Numerics.LinearAlgebra.Complex.DenseMatrix;
 
 namespace RateDeck.LinearAlgebra;
 
@@ -32,35 +30,12 @@ public sealed class ManagedLinearAlgebra : ILinearAlgebra
     public GeneralEigenDecomposition GeneralEigen(DenseMatrix matrix)
     {
         var evd = matrix.Evd(Symmetricity.Asymmetric);
-        var n = matrix.RowCount;
-        var values = evd.EigenValues.ToArray();
-        var real = evd.EigenVectors;
-        var vectors = ComplexDense.Create(n, n, Complex.Zero);
-
-        // MathNet packs a complex pair (a +- ib) as columns a and b, as LAPACK's dgeev does.
-        for (var k = 0; k < n; k++)
-        {
-            if (values[k].Imaginary != 0 && k + 1 < n && values[k + 1] == Complex.Conjugate(values[k]))
-            {
-                for (var row = 0; row < n; row++)
-                {
-                    vectors[row, k] = new Complex(real[row, k], real[row, k + 1]);
-                    vectors[row, k + 1] = new Complex(real[row, k], -real[row, k + 1]);
-                }
-
-                k++;
-            }
-            else
-            {
-                for (var row = 0; row < n; row++)
-                {
-                    vectors[row, k] = real[row, k];
-                }
-            }
-        }
-
-        NormalizeColumns(vectors);
-        return new GeneralEigenDecomposition(values, vectors);
+        var values = evd.EigenValues;
+        return DecompositionConventions.FromPacked(
+            values.Select(v => v.Real).ToArray(),
+            values.Select(v => v.Imaginary).ToArray(),
+            evd.EigenVectors.ToColumnMajorArray(),
+            matrix.RowCount);
     }
 
     /// <inheritdoc />
@@ -83,26 +58,7 @@ public sealed class ManagedLinearAlgebra : ILinearAlgebra
     public DenseMatrix Solve(DenseMatrix a, DenseMatrix b)
     {
         var lu = a.LU();
-        var pivotFloor = a.RowCount * double.Epsilon;
-        var diagonal = lu.U.Diagonal();
-        var largest = diagonal.AbsoluteMaximum();
-        if (largest == 0 || diagonal.AbsoluteMinimum() <= largest * 1e-15 * a.RowCount + pivotFloor)
-        {
-            throw new SingularMatrixException("the matrix is singular to working precision (LU pivot below n * 1e-15 of the largest)");
-        }
-
+        DecompositionConventions.ThrowIfSingular(lu.U.Diagonal().ToArray());
         return (DenseMatrix)lu.Solve(b);
-    }
-
-    private static void NormalizeColumns(ComplexDense vectors)
-    {
-        for (var column = 0; column < vectors.ColumnCount; column++)
-        {
-            var norm = vectors.Column(column).L2Norm();
-            if (norm > 0)
-            {
-                vectors.SetColumn(column, vectors.Column(column) / norm);
-            }
-        }
     }
 }

@@ -1,5 +1,6 @@
 using System.Text;
 using RateDeck.Outputs;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Outputs;

@@ -3,6 +3,7 @@ using System.Text.Json;
 using CsvHelper;
 using RateDeck.Outputs;
 using RateDeck.Propagation;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Outputs;

@@ -47,7 +47,7 @@ internal static class KernelAssemblyBenchmark
 
         Console.WriteLine(string.Create(
             CultureInfo.InvariantCulture,
-            $"  median of {_repeats}: wall {Median(wall),7:F1} ms, cpu {Median(cpu),7:F1} ms ({Median(cpu) * 1e6 / evaluations:F1} ns per evaluated pair)"));
+            $"  median of {_repeats}: wall {Timing.Median(wall),7:F1} ms, cpu {Timing.Median(cpu),7:F1} ms ({Timing.Median(cpu) * 1e6 / evaluations:F1} ns per evaluated pair)"));
         Console.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  runs (wall ms): {string.Join(", ", wall.Select(w => w.ToString("F1", CultureInfo.InvariantCulture)))}; checksum {checksum:G6}"));
     }
 
@@ -82,10 +82,4 @@ internal static class KernelAssemblyBenchmark
         """);
 
     private static double Checksum(RateMatrix rates) => rates.Generator.Values.Sum();
-
-    private static double Median(double[] values)
-    {
-        var sorted = values.Order().ToArray();
-        return sorted[sorted.Length / 2];
-    }
 }

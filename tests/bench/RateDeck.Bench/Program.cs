@@ -1,16 +1,45 @@
 using System.Globalization;
 using RateDeck.Bench;
 
-var size = args.Length > 1 ? int.Parse(args[1], CultureInfo.InvariantCulture) : 2000;
-switch (args.FirstOrDefault())
+// Benchmarks, not tests: run in Release on a quiet machine and compare ratios on one machine.
+//   dotnet run -c Release --project tests/bench/RateDeck.Bench -- eigen [--sizes 500,1000,2000] [--runs 3] [--managed-max 1000]
+//   dotnet run -c Release --project tests/bench/RateDeck.Bench -- kernel-assembly [--sizes 2000]
+// A new suite is one more entry in the table below.
+var suites = new Dictionary<string, Action<BenchOptions>>
 {
-    case "expressions":
-        ExpressionBenchmark.Run(size);
-        break;
-    case "kernel-assembly":
-        KernelAssemblyBenchmark.Run(size);
-        break;
-    default:
-        Console.WriteLine("usage: RateDeck.Bench expressions|kernel-assembly [N]   (N defaults to 2000)");
-        break;
+    ["eigen"] = options => EigenBench.Run(options.Sizes, options.Runs, options.ManagedMaxSize, Console.Out),
+    ["expressions"] = options => ExpressionBenchmark.Run(options.Sizes.Max()),
+    ["kernel-assembly"] = options => KernelAssemblyBenchmark.Run(options.Sizes.Max()),
+};
+
+if (args.Length == 0 || !suites.TryGetValue(args[0], out var suite))
+{
+    Console.Error.WriteLine($"usage: RateDeck.Bench <suite> [--sizes N,N,...] [--runs R] [--managed-max N]; suites: {string.Join(", ", suites.Keys)}");
+    return 2;
+}
+
+suite(BenchOptions.Parse(args[1..]));
+return 0;
+
+/// <summary>Options shared by the suites.</summary>
+internal sealed record BenchOptions(int[] Sizes, int Runs, int ManagedMaxSize)
+{
+    public static BenchOptions Parse(string[] args)
+    {
+        var options = new BenchOptions([500, 1000, 2000], 3, 1000);
+        for (var i = 0; i + 1 < args.Length; i += 2)
+        {
+            options = args[i] switch
+            {
+                "--sizes" => options with { Sizes = args[i + 1].Split(',').Select(Integer).ToArray() },
+                "--runs" => options with { Runs = Integer(args[i + 1]) },
+                "--managed-max" => options with { ManagedMaxSize = Integer(args[i + 1]) },
+                _ => throw new ArgumentException($"unknown option {args[i]}"),
+            };
+        }
+
+        return options;
+    }
+
+    private static int Integer(string text) => int.Parse(text, CultureInfo.InvariantCulture);
 }

@@ -1,11 +1,11 @@
-namespace RateDeck.Tests.Outputs;
+namespace RateDeck.Tests.Support;
 
 /// <summary>A fresh empty folder under the system temp path, deleted on dispose.</summary>
 internal sealed class TempFolder : IDisposable
 {
     public TempFolder()
     {
-        Path = Directory.CreateTempSubdirectory("ratedeck-outputs-").FullName;
+        Path = Directory.CreateTempSubdirectory("ratedeck-test-").FullName;
     }
 
     public string Path { get; }

@@ -1,0 +1,76 @@
+using System.Globalization;
+using RateDeck.LinearAlgebra;
+using RateDeck.Rates;
+
+namespace RateDeck.Propagation;
+
+/// <summary>
+/// Picks the exact propagator for a rate matrix and says why (SPEC 2): the symmetric
+/// eigen-decomposition when detailed balance holds and its rounding is harmless for the start
+/// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
+/// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
+/// exponential.
+/// </summary>
+public static class ExactPropagatorChoice
+{
+    /// <summary>Detailed balance counts as holding below this relative violation.</summary>
+    public const double DetailedBalanceThreshold = 1e-10;
+
+    /// <summary>
+    /// The general eigen path is taken while ||V||_1 ||V^-1||_1 is below this: its rounding is
+    /// about the condition times eps, so 1e8 still leaves about 1e-8 of the total population.
+    /// </summary>
+    public const double ConditionThreshold = 1e8;
+
+    /// <summary>
+    /// The propagator for <paramref name="rates"/>. <paramref name="detailedBalanceViolation"/> is
+    /// the relative violation reported by the diagnostics (the worst Kolmogorov cycle); it is
+    /// ignored when the matrix was completed by detailed balance. NaN counts as violated.
+    /// Pass <paramref name="initial"/> (P(0)) when known: under detailed balance the symmetric
+    /// path is then kept unless its rounding for this start would exceed
+    /// <see cref="SymmetricEigenPropagator.RelativeErrorLimit"/>; without it the worst start (all
+    /// population in the least probable state) is assumed, so that the choice is safe for any.
+    /// The returned <see cref="IPropagator.Reason"/> names the path and the numbers behind it.
+    /// </summary>
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null)
+    {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(la);
+        var balance = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
+            ? "detailed balance holds by construction (one direction completed from the other)"
+            : detailedBalanceViolation < DetailedBalanceThreshold
+                ? Format($"detailed balance holds (relative violation {detailedBalanceViolation:G3} < {DetailedBalanceThreshold:G3})")
+                : null;
+        if (balance is not null)
+        {
+            var symmetric = new SymmetricEigenPropagator(rates, la);
+            var estimate = initial is null ? symmetric.WorstCaseRelativeError : symmetric.RelativeErrorEstimate(initial);
+            var start = initial is null ? "the worst initial state" : "this initial state";
+            if (estimate <= SymmetricEigenPropagator.RelativeErrorLimit)
+            {
+                symmetric.Reason = $"symmetric eigen-decomposition: {balance}";
+                return symmetric;
+            }
+
+            return new PadeExponentialPropagator(rates, la)
+            {
+                Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
+            };
+        }
+
+        var violation = Format($"no detailed balance (relative violation {detailedBalanceViolation:G3} >= {DetailedBalanceThreshold:G3})");
+        var general = new GeneralEigenPropagator(rates, la);
+        if (general.EigenvectorCondition < ConditionThreshold)
+        {
+            general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {general.EigenvectorCondition:G3} < {ConditionThreshold:G3}");
+            return general;
+        }
+
+        return new PadeExponentialPropagator(rates, la)
+        {
+            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (eigenvectors nearly dependent)"),
+        };
+    }
+
+    private static string Format(FormattableString text) => text.ToString(CultureInfo.InvariantCulture);
+}
