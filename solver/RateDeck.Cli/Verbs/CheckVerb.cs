@@ -25,36 +25,28 @@ public sealed class CheckVerb : IVerb
     {
         var loaded = VerbSupport.Load(args);
         var report = MatrixChecks.Check(loaded.Rates, loaded.Algebra);
-        var labels = loaded.States.Labels;
         var mechanics = loaded.Mechanics is { } derived ? new MechanicsTable(loaded, derived) : null;
         var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args, loaded.Deck));
         if (args.Has("--json"))
         {
-            JsonSummary.Write(context.Out, new
-            {
-                ok = report.Ok,
-                tool_version = ToolInfo.Version,
-                deck = loaded.Deck.SourcePath,
-                deck_sha256 = loaded.Deck.Sha256,
-                overrides = loaded.Deck.Overrides,
-                linear_algebra = loaded.Algebra.Name,
-                states = labels.Length,
-                conservation_error = report.ConservationError,
-                negative_off_diagonals = report.NegativeOffDiagonalCount,
-                detailed_balance_violation = DetailedBalanceViolation(report.Balance),
-                detailed_balance_holds = report.Balance.Holds,
-                one_way_edges = report.Balance.OneWayCount,
-                worst_cycle = report.Balance.WorstCycle,
-                closed_classes = report.Classes.Closed.Select(c => c.Labels).ToArray(),
-                transient_states = report.Classes.TransientLabels,
-                null_space_dimension = report.Spectrum?.NullDimension,
-                expected_null_space_dimension = report.ExpectedNullDimension,
-                zero_tolerance = report.Spectrum?.ZeroTolerance,
-                spectrum_path = report.Spectrum?.PathReason,
-                equilibrium_agreement = report.EquilibriumAgreement.Select(a => a.MaxDifference).ToArray(),
-                checks = report.Checks.Select(c => new { name = c.Name, passed = c.Passed, detail = c.Detail }).ToArray(),
-                mechanics = mechanics?.Json(mechanicsFile!),
-            });
+            var fields = VerbSupport.JsonFields(loaded);
+            fields["ok"] = report.Ok;
+            fields["conservation_error"] = report.ConservationError;
+            fields["negative_off_diagonals"] = report.NegativeOffDiagonalCount;
+            fields["detailed_balance_violation"] = DetailedBalanceViolation(report.Balance);
+            fields["detailed_balance_holds"] = report.Balance.Holds;
+            fields["one_way_edges"] = report.Balance.OneWayCount;
+            fields["worst_cycle"] = report.Balance.WorstCycle;
+            fields["closed_classes"] = report.Classes.Closed.Select(c => c.Labels).ToArray();
+            fields["transient_states"] = report.Classes.TransientLabels;
+            fields["null_space_dimension"] = report.Spectrum?.NullDimension;
+            fields["expected_null_space_dimension"] = report.ExpectedNullDimension;
+            fields["zero_tolerance"] = report.Spectrum?.ZeroTolerance;
+            fields["spectrum_path"] = report.Spectrum?.PathReason;
+            fields["equilibrium_agreement"] = report.EquilibriumAgreement.Select(a => a.MaxDifference).ToArray();
+            fields["checks"] = report.Checks.Select(c => new { name = c.Name, passed = c.Passed, detail = c.Detail }).ToArray();
+            fields["mechanics"] = mechanics?.Json(mechanicsFile!);
+            JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
         else

@@ -67,35 +67,40 @@ public sealed class RunVerb : IVerb
         var outputFolder = VerbSupport.OutputFolder(args, deck);
         var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, spectrum, limits, steady, dt, chosenMethod, !args.Has("--no-plots"));
 
-        var summary = new RunSummary(
-            ToolVersion: ToolInfo.Version,
-            Deck: deck.SourcePath,
-            DeckSha256: deck.Sha256,
-            Overrides: deck.Overrides,
-            LinearAlgebra: loaded.Algebra.Name,
-            States: loaded.States.Count,
-            Propagator: exactPropagator.Name,
-            PropagatorReason: exactPropagator.Reason,
-            ExplicitMethod: explicitWanted ? VerbSupport.MethodName(chosenMethod) : null,
-            Dt: explicitWanted ? dt : null,
-            DtStabilityLimit: stabilityLimit,
-            MaxAbsDifference: difference?.MaxAbsolute,
-            MaxRelDifference: difference?.MaxRelative,
-            MaxDifferenceRelativeToTotal: difference?.MaxRelativeToTotal,
-            SteadyState: steady.Kind.ToString().ToLowerInvariant(),
-            SteadyStateDistance: distance,
-            FinalTotalPopulation: exact.Populations[^1].Sum(),
-            OutputTimes: times.Length,
-            OutputFolder: outputFolder,
-            Files: written);
+        var explicitMethod = explicitWanted ? VerbSupport.MethodName(chosenMethod) : null;
         if (args.Has("--json"))
         {
-            JsonSummary.Write(context.Out, summary);
+            var fields = VerbSupport.JsonFields(loaded);
+            fields["propagator"] = exactPropagator.Name;
+            fields["propagator_reason"] = exactPropagator.Reason;
+            fields["explicit_method"] = explicitMethod;
+            fields["dt"] = explicitWanted ? dt : null;
+            fields["dt_stability_limit"] = stabilityLimit;
+            fields["max_abs_difference"] = difference?.MaxAbsolute;
+            fields["max_rel_difference"] = difference?.MaxRelative;
+            fields["max_difference_relative_to_total"] = difference?.MaxRelativeToTotal;
+            fields["steady_state"] = steady.Kind.ToString().ToLowerInvariant();
+            fields["steady_state_distance"] = distance;
+            fields["final_total_population"] = exact.Populations[^1].Sum();
+            fields["output_times"] = times.Length;
+            fields["output_folder"] = outputFolder;
+            fields["files"] = written;
+            JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
         else
         {
-            WriteSummary(context.Out, loaded, summary, steady, difference, explicitPropagator);
+            VerbSupport.WriteDeckLine(context.Out, loaded);
+            context.Out.WriteLine($"exact        {exactPropagator.Reason}");
+            if (explicitPropagator is not null)
+            {
+                context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
+            }
+
+            context.Out.WriteLine($"outputs      {times.Length} times to t = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}");
+            WriteResults(context.Out, loaded, exact, steady, difference, distance);
+            context.Out.WriteLine();
+            context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
         }
 
         return ExitCodes.Success;
@@ -133,53 +138,19 @@ public sealed class RunVerb : IVerb
         return last.Zip(steady, (a, b) => Math.Abs(a - b)).Max() / scale;
     }
 
-    private static void WriteSummary(TextWriter output, LoadedDeck loaded, RunSummary summary, SteadyStateResult steady, TrajectoryDifference? difference, FixedStepPropagator? explicitPropagator)
+    private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)
     {
-        VerbSupport.WriteDeckLine(output, loaded);
-        output.WriteLine($"exact        {summary.PropagatorReason}");
-        if (explicitPropagator is not null)
-        {
-            output.WriteLine($"explicit     {summary.ExplicitMethod}, dt = {Format.Number(summary.Dt!.Value)} (stability limit {Format.Number(summary.DtStabilityLimit)}); {explicitPropagator.Reason}");
-        }
-
-        output.WriteLine($"outputs      {summary.OutputTimes} times to t = {Format.Number(loaded.Deck.Run.EndTime)} {loaded.Deck.TimeUnit}");
         output.WriteLine();
         if (difference is not null)
         {
             output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Number(difference.WorstTime)}, state {loaded.States.Labels[difference.WorstState]})");
         }
 
-        output.WriteLine($"  total population at t_end: {Format.Number(summary.FinalTotalPopulation)}");
+        output.WriteLine($"  total population at t_end: {Format.Number(exact.Populations[^1].Sum())}");
         output.WriteLine($"  steady state: {steady.Message}");
-        if (summary.SteadyStateDistance is { } distance)
+        if (distance is { } d)
         {
-            output.WriteLine($"  distance of the last output from the steady state: {Format.Number(distance)} (max |difference| / steady total)");
+            output.WriteLine($"  distance of the last output from the steady state: {Format.Number(d)} (max |difference| / steady total)");
         }
-
-        output.WriteLine();
-        output.WriteLine($"wrote {summary.Files.Count} files to {summary.OutputFolder}: {string.Join(", ", summary.Files)}");
     }
 }
-
-/// <summary>The JSON summary of a run (snake_case keys through <see cref="JsonSummary"/>).</summary>
-internal sealed record RunSummary(
-    string ToolVersion,
-    string Deck,
-    string DeckSha256,
-    IReadOnlyList<string> Overrides,
-    string LinearAlgebra,
-    int States,
-    string Propagator,
-    string PropagatorReason,
-    string? ExplicitMethod,
-    double? Dt,
-    double DtStabilityLimit,
-    double? MaxAbsDifference,
-    double? MaxRelDifference,
-    double? MaxDifferenceRelativeToTotal,
-    string SteadyState,
-    double? SteadyStateDistance,
-    double FinalTotalPopulation,
-    int OutputTimes,
-    string OutputFolder,
-    IReadOnlyList<string> Files);
