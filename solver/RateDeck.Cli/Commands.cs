@@ -9,7 +9,7 @@ namespace RateDeck.Cli;
 /// <summary>Dispatches the first argument to a verb and maps every failure to a plain message and an exit code.</summary>
 public static class Commands
 {
-    private static readonly IVerb[] _verbs = [new CheckVerb(), new StiffnessVerb()];
+    private static readonly IVerb[] _verbs = [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb()];
 
     /// <summary>Runs the verb named by the first argument.</summary>
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr)

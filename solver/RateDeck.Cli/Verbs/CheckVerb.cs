@@ -8,50 +8,50 @@ namespace RateDeck.Cli.Verbs;
 /// <summary>
 /// <c>ratedeck check DECK</c>: assembles the rate matrix and proves it sane: conservation,
 /// positivity, detailed balance, closed classes, null space and the equilibrium against the null
-/// vector. Exit 0 when every check passes, 4 when one fails.
+/// vector. For a deck with a Lagrangian it also shows what the mechanics stage derived per state
+/// and writes it to <c>mechanics.csv</c> in the output folder. Exit 0 when every check passes, 4
+/// when one fails.
 /// </summary>
 public sealed class CheckVerb : IVerb
 {
     /// <inheritdoc />
-    public VerbSyntax Syntax { get; } = new("check", "assemble the rate matrix and check it: conservation, positivity, detailed balance, classes, null space", []);
+    public VerbSyntax Syntax { get; } = new("check", "assemble the rate matrix and check it: conservation, positivity, detailed balance, classes, null space",
+    [
+        new("--out", "DIR", "output folder for mechanics.csv of a deck with a Lagrangian (default ratedeck-out/<deck name>)"),
+    ]);
 
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        var loaded = VerbSupport.Load(args, context);
+        var loaded = VerbSupport.Load(args);
         var report = MatrixChecks.Check(loaded.Rates, loaded.Algebra);
-        var labels = loaded.States.Labels;
+        var mechanics = loaded.Mechanics is { } derived ? new MechanicsTable(loaded, derived) : null;
+        var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args, loaded.Deck));
         if (args.Has("--json"))
         {
-            JsonSummary.Write(context.Out, new
-            {
-                ok = report.Ok,
-                tool_version = ToolInfo.Version,
-                deck = loaded.Deck.SourcePath,
-                deck_sha256 = loaded.Deck.Sha256,
-                overrides = loaded.Deck.Overrides,
-                linear_algebra = loaded.Algebra.Name,
-                states = labels.Length,
-                conservation_error = report.ConservationError,
-                negative_off_diagonals = report.NegativeOffDiagonalCount,
-                detailed_balance_violation = DetailedBalanceViolation(report.Balance),
-                detailed_balance_holds = report.Balance.Holds,
-                one_way_edges = report.Balance.OneWayCount,
-                worst_cycle = report.Balance.WorstCycle,
-                closed_classes = report.Classes.Closed.Select(c => c.Labels).ToArray(),
-                transient_states = report.Classes.TransientLabels,
-                null_space_dimension = report.Spectrum?.NullDimension,
-                expected_null_space_dimension = report.ExpectedNullDimension,
-                zero_tolerance = report.Spectrum?.ZeroTolerance,
-                spectrum_path = report.Spectrum?.PathReason,
-                equilibrium_agreement = report.EquilibriumAgreement.Select(a => a.MaxDifference).ToArray(),
-                checks = report.Checks.Select(c => new { name = c.Name, passed = c.Passed, detail = c.Detail }).ToArray(),
-            });
+            var fields = VerbSupport.JsonFields(loaded);
+            fields["ok"] = report.Ok;
+            fields["conservation_error"] = report.ConservationError;
+            fields["negative_off_diagonals"] = report.NegativeOffDiagonalCount;
+            fields["detailed_balance_violation"] = DetailedBalanceViolation(report.Balance);
+            fields["detailed_balance_holds"] = report.Balance.Holds;
+            fields["one_way_edges"] = report.Balance.OneWayCount;
+            fields["worst_cycle"] = report.Balance.WorstCycle;
+            fields["closed_classes"] = report.Classes.Closed.Select(c => c.Labels).ToArray();
+            fields["transient_states"] = report.Classes.TransientLabels;
+            fields["null_space_dimension"] = report.Spectrum?.NullDimension;
+            fields["expected_null_space_dimension"] = report.ExpectedNullDimension;
+            fields["zero_tolerance"] = report.Spectrum?.ZeroTolerance;
+            fields["spectrum_path"] = report.Spectrum?.PathReason;
+            fields["equilibrium_agreement"] = report.EquilibriumAgreement.Select(a => a.MaxDifference).ToArray();
+            fields["checks"] = report.Checks.Select(c => new { name = c.Name, passed = c.Passed, detail = c.Detail }).ToArray();
+            fields["mechanics"] = mechanics?.Json(mechanicsFile!);
+            JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
         else
         {
-            WriteSummary(context.Out, loaded, report);
+            WriteSummary(context.Out, loaded, report, mechanics, mechanicsFile);
         }
 
         return report.Ok ? ExitCodes.Success : ExitCodes.CheckFailed;
@@ -61,7 +61,7 @@ public sealed class CheckVerb : IVerb
     private static double DetailedBalanceViolation(BalanceReport balance) =>
         balance.Origin == Rates.BalanceOrigin.TakenAsGiven && balance.CycleViolation is { } cycle ? cycle : balance.PairViolation;
 
-    private static void WriteSummary(TextWriter output, Pipeline.LoadedDeck loaded, CheckReport report)
+    private static void WriteSummary(TextWriter output, Pipeline.LoadedDeck loaded, CheckReport report, MechanicsTable? mechanics, string? mechanicsFile)
     {
         VerbSupport.WriteDeckLine(output, loaded);
         if (report.Spectrum is { } spectrum)
@@ -88,6 +88,12 @@ public sealed class CheckVerb : IVerb
         if (classes.TransientLabels.Length > 0)
         {
             output.WriteLine($"  transient ({classes.TransientLabels.Length}): {Format.Labels(classes.TransientLabels)}");
+        }
+
+        if (mechanics is not null)
+        {
+            output.WriteLine();
+            mechanics.WriteSummary(output, mechanicsFile!);
         }
 
         output.WriteLine(report.Ok ? "result: every check passed" : $"result: {report.Failures.Count} check(s) failed");

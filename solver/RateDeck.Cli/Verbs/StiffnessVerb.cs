@@ -25,7 +25,7 @@ public sealed class StiffnessVerb : IVerb
     public int Execute(ParsedArguments args, VerbContext context)
     {
         var method = VerbSupport.Method(args);
-        var loaded = VerbSupport.Load(args, context);
+        var loaded = VerbSupport.Load(args);
         var dt = args.PositiveNumber("--dt");
         var endTime = args.PositiveNumber("--t-end") ?? loaded.Deck.Run.EndTime;
         var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
@@ -35,32 +35,25 @@ public sealed class StiffnessVerb : IVerb
 
         if (args.Has("--json"))
         {
-            JsonSummary.Write(context.Out, new
-            {
-                tool_version = ToolInfo.Version,
-                deck = loaded.Deck.SourcePath,
-                deck_sha256 = loaded.Deck.Sha256,
-                overrides = loaded.Deck.Overrides,
-                linear_algebra = loaded.Algebra.Name,
-                states = loaded.States.Count,
-                spectral_radius = report.SpectralRadius,
-                slowest_rate = report.SlowestRate,
-                stiffness_ratio = report.StiffnessRatio,
-                max_diagonal_rate = report.MaxDiagonalRate,
-                dt_euler_stable = report.EulerStable.MaxStep,
-                dt_positive = report.Positivity.MaxStep,
-                dt_rule_of_thumb = report.RuleOfThumb.MaxStep,
-                dt_rk4_stable = report.Rk4Stable.MaxStep,
-                horizon = report.Horizon,
-                steps = report.Limits.ToDictionary(l => l.Name.Replace('-', '_'), l => l.Steps),
-                dt = report.Dt,
-                method = VerbSupport.MethodName(chosen),
-                euler_safe = report.EulerSafe,
-                rk4_safe = report.Rk4Safe,
-                positivity_preserving = report.PositivityPreserving,
-                dt_safe = dt is null ? (bool?)null : safe,
-                recommendation = report.Recommendation,
-            });
+            var fields = VerbSupport.JsonFields(loaded);
+            fields["spectral_radius"] = report.SpectralRadius;
+            fields["slowest_rate"] = report.SlowestRate;
+            fields["stiffness_ratio"] = report.StiffnessRatio;
+            fields["max_diagonal_rate"] = report.MaxDiagonalRate;
+            fields["dt_euler_stable"] = report.EulerStable.MaxStep;
+            fields["dt_positive"] = report.Positivity.MaxStep;
+            fields["dt_rule_of_thumb"] = report.RuleOfThumb.MaxStep;
+            fields["dt_rk4_stable"] = report.Rk4Stable.MaxStep;
+            fields["horizon"] = report.Horizon;
+            fields["steps"] = report.Limits.ToDictionary(l => l.Name.Replace('-', '_'), l => l.Steps);
+            fields["dt"] = report.Dt;
+            fields["method"] = VerbSupport.MethodName(chosen);
+            fields["euler_safe"] = report.EulerSafe;
+            fields["rk4_safe"] = report.Rk4Safe;
+            fields["positivity_preserving"] = report.PositivityPreserving;
+            fields["dt_safe"] = dt is null ? (bool?)null : safe;
+            fields["recommendation"] = report.Recommendation;
+            JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
         else

@@ -1,6 +1,7 @@
 using RateDeck.Cli.CommandLine;
 using RateDeck.Decks;
 using RateDeck.LinearAlgebra;
+using RateDeck.Outputs;
 using RateDeck.Pipeline;
 
 namespace RateDeck.Cli.Verbs;
@@ -9,12 +10,38 @@ namespace RateDeck.Cli.Verbs;
 internal static class VerbSupport
 {
     /// <summary>Loads the deck named on the command line through the pipeline with the provider asked for.</summary>
-    public static LoadedDeck Load(ParsedArguments args, VerbContext context)
+    public static LoadedDeck Load(ParsedArguments args)
     {
-        _ = context;
-        var algebra = LinearAlgebraProviders.Default;
+        ILinearAlgebra algebra;
+        try
+        {
+            algebra = LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
+        }
+        catch (LinearAlgebraChoiceException e)
+        {
+            throw new UsageException(e.Message);
+        }
+
         return DeckPipeline.Load(args.DeckPath, args.Overrides, algebra);
     }
+
+    /// <summary>The output folder: <c>--out</c>, else <c>ratedeck-out/&lt;deck file name without extension&gt;</c>.</summary>
+    public static string OutputFolder(ParsedArguments args, Deck deck) =>
+        args.Value("--out") ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(deck.SourcePath));
+
+    /// <summary>
+    /// The provenance every JSON summary starts with (tool version, deck, hash, overrides, provider,
+    /// state count); a verb adds its own snake_case keys in order.
+    /// </summary>
+    public static Dictionary<string, object?> JsonFields(LoadedDeck loaded) => new()
+    {
+        ["tool_version"] = ToolInfo.Version,
+        ["deck"] = loaded.Deck.SourcePath,
+        ["deck_sha256"] = loaded.Deck.Sha256,
+        ["overrides"] = loaded.Deck.Overrides,
+        ["linear_algebra"] = loaded.Algebra.Name,
+        ["states"] = loaded.States.Count,
+    };
 
     /// <summary>The first lines of every summary: which deck, how many states, which provider.</summary>
     public static void WriteDeckLine(TextWriter output, LoadedDeck loaded)

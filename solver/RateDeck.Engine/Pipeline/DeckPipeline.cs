@@ -15,11 +15,16 @@ public static class DeckPipeline
     public static LoadedDeck Load(string path, IReadOnlyList<string> overrides, ILinearAlgebra algebra) =>
         Assemble(DeckReader.Read(path, overrides), algebra);
 
-    /// <summary>Evaluates and assembles an already validated deck (the fitter calls this for each trial).</summary>
+    /// <summary>
+    /// Evaluates and assembles an already validated deck (the fitter calls this for each trial).
+    /// A deck with a Lagrangian goes through the mechanics stage, whose full result is kept in
+    /// <see cref="LoadedDeck.Mechanics"/>.
+    /// </summary>
     public static LoadedDeck Assemble(Deck deck, ILinearAlgebra algebra)
     {
-        var states = StateSpaceBuilder.Build(deck);
+        var mechanics = new MechanicsStage();
+        var states = StateSpaceBuilder.Build(deck, mechanics.DeriveWeights);
         var rates = RateMatrixAssembler.Assemble(deck, states);
-        return new LoadedDeck(deck, states, rates, algebra);
+        return new LoadedDeck(deck, states, rates, algebra) { Mechanics = mechanics.Result };
     }
 }

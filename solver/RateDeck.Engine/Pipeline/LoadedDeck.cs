@@ -1,5 +1,6 @@
 using RateDeck.Decks;
 using RateDeck.LinearAlgebra;
+using RateDeck.Mechanics;
 using RateDeck.Rates;
 using RateDeck.States;
 
@@ -10,4 +11,11 @@ namespace RateDeck.Pipeline;
 /// <param name="States">The evaluated state space.</param>
 /// <param name="Rates">The assembled generator.</param>
 /// <param name="Algebra">The linear-algebra provider the later stages use.</param>
-public sealed record LoadedDeck(Deck Deck, StateSpace States, RateMatrix Rates, ILinearAlgebra Algebra);
+public sealed record LoadedDeck(Deck Deck, StateSpace States, RateMatrix Rates, ILinearAlgebra Algebra)
+{
+    /// <summary>
+    /// What the mechanics stage derived from the deck's Lagrangian at the state energies (actions,
+    /// periods, weights, turning points), in state order; null when the deck has no Lagrangian.
+    /// </summary>
+    public MechanicsResult? Mechanics { get; init; }
+}

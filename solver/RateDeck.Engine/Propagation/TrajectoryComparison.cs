@@ -3,12 +3,15 @@ namespace RateDeck.Propagation;
 /// <summary>
 /// The largest differences between two trajectories on the same output times (SPEC 2: explicit
 /// and exact results side by side). For each time t and state i, with a = first, b = second:
-/// absolute |a - b|; relative |a - b| / max(|a|, |b|, 1e-300), entry by entry, so a population
-/// that is tiny in both still counts; relative to the total, |a - b| / max(sum_i |a_i|, 1e-300),
-/// which measures the difference against the population present at that time.
+/// absolute |a - b|; relative |a - b| / max(|a|, |b|), entry by entry, over the entries where
+/// max(|a|, |b|) is at least <see cref="TrajectoryComparison.RelativeFloor"/> of the total
+/// population at that time (a state holding a billionth of the population would otherwise
+/// dominate with a relative difference of order 1 that says nothing about the run); relative to
+/// the total, |a - b| / max(sum_i |a_i|, 1e-300), which measures every entry against the
+/// population present at that time.
 /// </summary>
 /// <param name="MaxAbsolute">Largest |a - b|.</param>
-/// <param name="MaxRelative">Largest entrywise relative difference.</param>
+/// <param name="MaxRelative">Largest entrywise relative difference over the resolved entries.</param>
 /// <param name="MaxRelativeToTotal">Largest |a - b| over the total population of the first trajectory at that time.</param>
 /// <param name="WorstTime">Output time of <paramref name="MaxAbsolute"/>.</param>
 /// <param name="WorstState">State index of <paramref name="MaxAbsolute"/>.</param>
@@ -19,6 +22,9 @@ public static class TrajectoryComparison
 {
     /// <summary>Floor of every denominator, so that two zero populations differ by 0, not NaN.</summary>
     public const double DenominatorFloor = 1e-300;
+
+    /// <summary>Entries below this fraction of the total population are left out of the entrywise relative difference.</summary>
+    public const double RelativeFloor = 1e-9;
 
     /// <summary>The differences of <paramref name="b"/> from <paramref name="a"/>.</summary>
     /// <exception cref="ArgumentException">The output times or the state counts differ.</exception>
@@ -44,7 +50,12 @@ public static class TrajectoryComparison
             for (var i = 0; i < pa.Length; i++)
             {
                 var difference = Math.Abs(pa[i] - pb[i]);
-                relative = Math.Max(relative, difference / Math.Max(Math.Max(Math.Abs(pa[i]), Math.Abs(pb[i])), DenominatorFloor));
+                var magnitude = Math.Max(Math.Abs(pa[i]), Math.Abs(pb[i]));
+                if (magnitude >= RelativeFloor * total)
+                {
+                    relative = Math.Max(relative, difference / magnitude);
+                }
+
                 relativeToTotal = Math.Max(relativeToTotal, difference / total);
                 if (difference > absolute)
                 {

@@ -24,8 +24,8 @@ public static class RateMatrixAssembler
 {
     private const double _smallestNormal = 2.2250738585072014e-308;
 
-    /// <summary>The built-in variables of a kernel expression, in evaluation order.</summary>
-    private static readonly string[] _kernelVariables = ["x", "y", "i", "j", "kT"];
+    /// <summary>The variables of a kernel expression, in evaluation order (kT and the parameters are bound).</summary>
+    private static readonly string[] _kernelVariables = ["x", "y", "i", "j"];
 
     /// <summary>
     /// Assembles the generator of <paramref name="deck"/> on <paramref name="states"/> (built from
@@ -68,7 +68,7 @@ public static class RateMatrixAssembler
         {
             CheckEntry(entry, states, seen);
             var pair = new Pair(entry.From, entry.To, states);
-            RequireDistinctCoordinates(pair, entry.Span);
+            RequireDistinctCoordinates(entry.From, entry.To, states, entry.Span);
             if (!pair.Follows(oneWay.Direction))
             {
                 throw new DeckException(
@@ -76,7 +76,7 @@ public static class RateMatrixAssembler
                     $"this rate goes from {pair.Describe()}, against the declared direction ({Describe(oneWay.Direction)}); give it the other way round, or give the full matrix");
             }
 
-            if (!TryPlaceAndComplete(generator, pair, entry.Rate))
+            if (!TryPlaceAndComplete(generator, pair.From, pair.To, entry.Rate, pair.LogRatio))
             {
                 throw new DeckException(entry.Span, OverflowMessage("this rate", pair, entry.Rate));
             }
@@ -99,9 +99,14 @@ public static class RateMatrixAssembler
 
     /// <summary>
     /// W(x -> y) with x, y the source and target coordinates and i, j their ONE-based state
-    /// numbers, evaluated once for every pair in the declared direction within the band.
-    /// The kernel sees x, y, i, j, kT, then the deck parameters in ordinal order of their names.
+    /// numbers, evaluated once for every pair in the declared direction within the band. kT and
+    /// the deck parameters are bound as constants at compile time.
     /// </summary>
+    /// <remarks>
+    /// The hot loop of a model deck (N^2 pairs for N in the thousands): it reads the coordinates
+    /// and ln pi from arrays, reuses one value buffer, writes the storage through one call per rate and
+    /// builds a <see cref="Pair"/> only to word an error.
+    /// </remarks>
     private static BalanceOrigin PlaceKernel(KernelModel kernel, Deck deck, StateSpace states, GeneratorBuilder generator)
     {
         if (kernel.Band is < 1)
@@ -112,41 +117,40 @@ public static class RateMatrixAssembler
         var scope = ExpressionScope.Create(deck, _kernelVariables);
         var compiled = scope.Compile(kernel.Text, kernel.Span);
         var values = scope.NewValues();
-        values[4] = states.KT;
         var n = states.Count;
         var band = kernel.Band ?? n;
+        var coordinates = states.Coordinates;
+        var logPi = states.LogEquilibrium;
+        var towardSmaller = kernel.Direction == TransferDirection.TowardSmaller;
         for (var source = 0; source < n; source++)
         {
+            var x = coordinates[source];
+            values[0] = x;
+            values[2] = source + 1;
             var first = Math.Max(0, source - band);
             var last = Math.Min(n - 1, source + band);
             for (var target = first; target <= last; target++)
             {
-                if (target == source)
+                var y = coordinates[target];
+                if (target == source || (towardSmaller ? !(y < x) : !(y > x)))
                 {
+                    RequireDistinctCoordinates(source, target, states, kernel.Span);
                     continue;
                 }
 
-                var pair = new Pair(source, target, states);
-                RequireDistinctCoordinates(pair, kernel.Span);
-                if (!pair.Follows(kernel.Direction))
-                {
-                    continue;
-                }
-
-                values[0] = states.Coordinates[source];
-                values[1] = states.Coordinates[target];
-                values[2] = source + 1;
+                values[1] = y;
                 values[3] = target + 1;
                 var rate = compiled.Evaluate(values);
                 if (!(rate >= 0 && double.IsFinite(rate)))
                 {
                     throw new DeckException(
                         kernel.Span,
-                        string.Create(CultureInfo.InvariantCulture, $"the kernel is {rate} from {pair.Describe()}; a rate must be finite and zero or more"));
+                        string.Create(CultureInfo.InvariantCulture, $"the kernel is {rate} from {new Pair(source, target, states).Describe()}; a rate must be finite and zero or more"));
                 }
 
-                if (!TryPlaceAndComplete(generator, pair, rate))
+                if (!TryPlaceAndComplete(generator, source, target, rate, logPi[source] - logPi[target]))
                 {
+                    var pair = new Pair(source, target, states);
                     throw new DeckException(kernel.Span, OverflowMessage($"the kernel's rate from {pair.Describe()}", pair, rate));
                 }
             }
@@ -182,24 +186,26 @@ public static class RateMatrixAssembler
     }
 
     /// <summary>
-    /// Sets K[to, from] = rate and completes K[from, to] = rate pi_from / pi_to in log space;
-    /// false (nothing completed) when the completed rate would overflow a double.
+    /// Sets K[to, from] = rate and completes K[from, to] = rate pi_from / pi_to as
+    /// exp(ln rate + <paramref name="logRatio"/>), <paramref name="logRatio"/> = ln pi_from - ln pi_to,
+    /// in <paramref name="generator"/>; false (nothing completed)
+    /// when the completed rate would overflow a double.
     /// </summary>
-    private static bool TryPlaceAndComplete(GeneratorBuilder generator, Pair pair, double rate)
+    private static bool TryPlaceAndComplete(GeneratorBuilder generator, int from, int to, double rate, double logRatio)
     {
-        generator.Set(pair.To, pair.From, rate);
+        generator.Set(to, from, rate);
         if (rate == 0)
         {
             return true;
         }
 
-        var reverse = Math.Exp(Math.Log(rate) + pair.LogRatio);
+        var reverse = Math.Exp(Math.Log(rate) + logRatio);
         if (double.IsInfinity(reverse))
         {
             return false;
         }
 
-        generator.Set(pair.From, pair.To, reverse >= _smallestNormal ? reverse : 0.0);
+        generator.Set(from, to, reverse >= _smallestNormal ? reverse : 0.0);
         return true;
     }
 
@@ -207,11 +213,12 @@ public static class RateMatrixAssembler
         CultureInfo.InvariantCulture,
         $"completing {what} by detailed balance gives the reverse rate {rate:G6} x pi_from/pi_to = {rate:G6} x e^{pair.LogRatio:G6}, about 10^{(Math.Log(rate) + pair.LogRatio) / Math.Log(10):F0}, beyond the largest double (1.8e308); give the rate of the other direction instead, or check the energies, weights and kT");
 
-    private static void RequireDistinctCoordinates(Pair pair, SourceSpan span)
+    /// <summary>Rejects a transfer between two distinct states of one coordinate: its direction is undefined.</summary>
+    private static void RequireDistinctCoordinates(int from, int to, StateSpace states, SourceSpan span)
     {
-        if (pair.SameCoordinate)
+        if (from != to && states.Coordinates[from] == states.Coordinates[to])
         {
-            throw new DeckException(span, $"the transfer from {pair.Describe()} joins two states of one coordinate, so its direction is undefined; give the states distinct coordinates");
+            throw new DeckException(span, $"the transfer from {new Pair(from, to, states).Describe()} joins two states of one coordinate, so its direction is undefined; give the states distinct coordinates");
         }
     }
 
@@ -238,8 +245,6 @@ public static class RateMatrixAssembler
     /// <summary>An ordered pair of states: transfer from <see cref="From"/> to <see cref="To"/>.</summary>
     private readonly record struct Pair(int From, int To, StateSpace States)
     {
-        public bool SameCoordinate => States.Coordinates[From] == States.Coordinates[To];
-
         /// <summary>ln(pi_from / pi_to), the log factor from this rate to its detailed-balance partner.</summary>
         public double LogRatio => States.LogEquilibrium[From] - States.LogEquilibrium[To];
 

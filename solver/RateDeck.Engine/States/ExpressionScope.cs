@@ -4,56 +4,53 @@ using RateDeck.Expressions;
 namespace RateDeck.States;
 
 /// <summary>
-/// The variables one kind of deck expression sees, in a fixed order: the built-in variables of that
-/// kind first, as listed by the caller, then the deck parameters in ordinal order of their names.
-/// The caller fills the built-in slots of a value buffer; the parameter slots are filled here once.
+/// What one kind of deck expression sees: its own variables (x and i for a per-state expression,
+/// say), whose values the caller passes in the order listed, and the fixed names kT and the deck
+/// parameters, bound at compile time. Bound names are folded like literals, so the parts of an
+/// expression that depend only on them are computed once, not once per state or pair; the order
+/// of operations is unchanged, so the values are the same as if they were passed.
 /// </summary>
 internal sealed class ExpressionScope
 {
-    private readonly double[] _parameterValues;
+    /// <summary>The name of the temperature, bound in every scope.</summary>
+    public const string TemperatureName = "kT";
 
-    private ExpressionScope(string[] names, double[] parameterValues, int builtInCount)
+    private readonly Dictionary<string, double> _bound;
+
+    private ExpressionScope(string[] variables, Dictionary<string, double> bound)
     {
-        Names = names;
-        _parameterValues = parameterValues;
-        BuiltInCount = builtInCount;
+        Variables = variables;
+        _bound = bound;
     }
 
-    /// <summary>All variable names in evaluation order.</summary>
-    public IReadOnlyList<string> Names { get; }
-
-    /// <summary>Number of built-in variables at the front of <see cref="Names"/>.</summary>
-    public int BuiltInCount { get; }
+    /// <summary>The variables in evaluation order (kT and the parameters are not among them).</summary>
+    public IReadOnlyList<string> Variables { get; }
 
     /// <summary>
-    /// The scope of built-in variables <paramref name="builtIns"/> plus the deck's parameters.
-    /// A parameter named like a built-in is rejected at the parameter's span: it would be ambiguous.
+    /// The scope of <paramref name="variables"/> with kT and the deck's parameters bound. A
+    /// parameter named like a variable or kT is rejected at the parameter's span: it would be ambiguous.
     /// </summary>
-    public static ExpressionScope Create(Deck deck, params string[] builtIns)
+    public static ExpressionScope Create(Deck deck, params string[] variables)
     {
-        var parameters = deck.Parameters.Values.OrderBy(p => p.Name, StringComparer.Ordinal).ToArray();
-        foreach (var parameter in parameters)
+        var bound = new Dictionary<string, double>(StringComparer.Ordinal) { [TemperatureName] = deck.KT };
+        foreach (var parameter in deck.Parameters.Values.OrderBy(p => p.Name, StringComparer.Ordinal))
         {
-            if (builtIns.Contains(parameter.Name, StringComparer.Ordinal))
+            if (variables.Contains(parameter.Name, StringComparer.Ordinal) || parameter.Name == TemperatureName)
             {
                 throw new DeckException(
                     parameter.Span,
-                    $"parameter '{parameter.Name}' has the name of a built-in variable ({string.Join(", ", builtIns)}); rename the parameter");
+                    $"parameter '{parameter.Name}' has the name of a built-in variable ({string.Join(", ", variables.Append(TemperatureName))}); rename the parameter");
             }
+
+            bound.Add(parameter.Name, parameter.Value);
         }
 
-        var names = builtIns.Concat(parameters.Select(p => p.Name)).ToArray();
-        return new ExpressionScope(names, parameters.Select(p => p.Value).ToArray(), builtIns.Length);
+        return new ExpressionScope(variables, bound);
     }
 
     /// <summary>Compiles <paramref name="text"/> in this scope; errors point into the deck from <paramref name="origin"/>.</summary>
-    public CompiledExpression Compile(string text, SourceSpan origin) => ExpressionCompiler.Compile(text, origin, Names);
+    public CompiledExpression Compile(string text, SourceSpan origin) => ExpressionCompiler.Compile(text, origin, Variables, _bound);
 
-    /// <summary>A fresh value buffer with the parameter slots filled and the built-in slots zero.</summary>
-    public double[] NewValues()
-    {
-        var values = new double[Names.Count];
-        _parameterValues.CopyTo(values, BuiltInCount);
-        return values;
-    }
+    /// <summary>A fresh value buffer, one slot per variable.</summary>
+    public double[] NewValues() => new double[Variables.Count];
 }

@@ -4,14 +4,14 @@ using RateDeck.Decks;
 namespace RateDeck.States;
 
 /// <summary>
-/// Turns a <see cref="PerStateSource"/> into one value per state. An expression sees, in this
-/// order, <c>x</c> (the state's coordinate), <c>i</c> (the ONE-based state number, as a deck user
-/// counts), <c>kT</c>, then the deck parameters in ordinal order of their names.
+/// Turns a <see cref="PerStateSource"/> into one value per state. An expression sees <c>x</c> (the
+/// state's coordinate), <c>i</c> (the ONE-based state number, as a deck user counts), <c>kT</c>
+/// and the deck parameters; kT and the parameters are bound as constants when it is compiled.
 /// </summary>
 public static class PerStateEvaluator
 {
-    /// <summary>The built-in variables of a per-state expression, in evaluation order.</summary>
-    public static IReadOnlyList<string> BuiltInVariables { get; } = ["x", "i", "kT"];
+    /// <summary>The built-in variables of a per-state expression: x, i and kT.</summary>
+    public static IReadOnlyList<string> BuiltInVariables { get; } = ["x", "i", ExpressionScope.TemperatureName];
 
     /// <summary>
     /// Evaluates <paramref name="source"/> for every state of <paramref name="deck"/>'s grid and
@@ -58,10 +58,9 @@ public static class PerStateEvaluator
 
     private static double[] EvaluateExpression(Deck deck, PerStateExpression expression)
     {
-        var scope = ExpressionScope.Create(deck, [.. BuiltInVariables]);
+        var scope = ExpressionScope.Create(deck, "x", "i");
         var compiled = scope.Compile(expression.Text, expression.Span);
         var buffer = scope.NewValues();
-        buffer[2] = deck.KT;
         var values = new double[deck.Grid.Count];
         for (var state = 0; state < values.Length; state++)
         {

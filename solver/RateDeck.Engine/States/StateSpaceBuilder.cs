@@ -1,6 +1,7 @@
 using System.Globalization;
 using MathNet.Numerics;
 using RateDeck.Decks;
+using RateDeck.Mechanics;
 
 namespace RateDeck.States;
 
@@ -13,16 +14,21 @@ namespace RateDeck.States;
 public static class StateSpaceBuilder
 {
     /// <summary>
-    /// Builds the state space of <paramref name="deck"/>. Weights from mechanics are refused here
-    /// with a <see cref="DeckException"/>; use the overload that takes the mechanics stage.
+    /// Builds the state space of <paramref name="deck"/> with the real mechanics stage
+    /// (<see cref="MechanicsStage"/>), run whenever the deck has a Lagrangian; see
+    /// <see cref="Build(Deck, MechanicsWeightDeriver?)"/>.
     /// </summary>
-    public static StateSpace Build(Deck deck) => Build(deck, null);
+    public static StateSpace Build(Deck deck) => Build(deck, new MechanicsStage().DeriveWeights);
 
     /// <summary>
-    /// Builds the state space of <paramref name="deck"/>, with <paramref name="mechanics"/> deriving
-    /// weights g(E) = T(E) / h when the deck asks for weights from its Lagrangian (null: refused).
-    /// Throws <see cref="DeckException"/> naming the state for a non-finite energy, a weight that is
-    /// not positive and finite, or a kT that is not positive and finite.
+    /// Builds the state space of <paramref name="deck"/>. When the deck has a Lagrangian and
+    /// <paramref name="mechanics"/> is given, the stage is run at the state energies whether or not
+    /// the weights come from it: a Lagrangian that gives no closed orbit at a state's energy is a
+    /// mistake in the deck either way. Its weights g(E) = T(E) / h are used when the deck asks for
+    /// weights from mechanics (without a stage that is refused). Throws <see cref="DeckException"/>
+    /// naming the state for a non-finite energy, a weight that is not positive and finite, a kT
+    /// that is not positive and finite, or an energy at which the Lagrangian has no closed orbit
+    /// (at the Lagrangian's span).
     /// </summary>
     public static StateSpace Build(Deck deck, MechanicsWeightDeriver? mechanics)
     {
@@ -32,11 +38,12 @@ public static class StateSpaceBuilder
         }
 
         var energies = PerStateEvaluator.Evaluate(deck, deck.Energies, "energy", PerStateRequirement.Finite);
+        var derived = deck.Mechanics is { } spec && mechanics is not null ? DeriveWeights(deck, spec, energies, mechanics) : null;
         var logWeights = deck.Weights switch
         {
             GivenWeights given => PerStateEvaluator.Evaluate(deck, given.Source, "weight", PerStateRequirement.Positive).Select(w => Math.Log(w)).ToArray(),
             IsotropicWeights isotropic => IsotropicLogWeights(deck.Grid, isotropic),
-            MechanicsWeights fromMechanics => MechanicsLogWeights(deck, fromMechanics, energies, mechanics),
+            MechanicsWeights fromMechanics => MechanicsLogWeights(deck, fromMechanics, derived),
             _ => throw new NotSupportedException($"unknown weight specification {deck.Weights.GetType().Name}"),
         };
 
@@ -95,23 +102,30 @@ public static class StateSpaceBuilder
         return logWeights;
     }
 
-    /// <summary>
-    /// Weights g(E) = T(E) / h from the deck's Lagrangian, through the mechanics stage. The
-    /// Lagrangian sees <c>q</c>, <c>v</c>, <c>kT</c>, then the parameters in ordinal order.
-    /// </summary>
-    private static double[] MechanicsLogWeights(Deck deck, MechanicsWeights request, double[] energies, MechanicsWeightDeriver? mechanics)
+    /// <summary>ln g_i from the weights the mechanics stage derived, or a refusal saying what is missing.</summary>
+    private static double[] MechanicsLogWeights(Deck deck, MechanicsWeights request, double[]? derived)
     {
-        if (deck.Mechanics is not { } spec)
+        if (deck.Mechanics is null)
         {
             throw new DeckException(request.Span, "weights from mechanics need a Lagrangian; add one to the deck or give the weights another way");
         }
 
-        if (mechanics is null)
+        if (derived is null)
         {
             throw new DeckException(request.Span, "weights from mechanics need the mechanics stage, which this build does not have; give the weights per state or by dimension");
         }
 
-        var scope = ExpressionScope.Create(deck, "q", "v", "kT");
+        return derived.Select(w => Math.Log(w)).ToArray();
+    }
+
+    /// <summary>
+    /// Runs the mechanics stage on the deck's Lagrangian, which sees <c>q</c>, <c>v</c>, and kT and
+    /// the parameters bound as constants, and checks every weight. A failure of the stage for one
+    /// state becomes a <see cref="DeckException"/> at the Lagrangian naming that state.
+    /// </summary>
+    private static double[] DeriveWeights(Deck deck, MechanicsSpec spec, double[] energies, MechanicsWeightDeriver mechanics)
+    {
+        var scope = ExpressionScope.Create(deck, "q", "v");
         var compiled = scope.Compile(spec.Lagrangian, spec.Span);
         double Lagrangian(double q, double v)
         {
@@ -119,11 +133,22 @@ public static class StateSpaceBuilder
             var values = scope.NewValues();
             values[0] = q;
             values[1] = v;
-            values[2] = deck.KT;
             return compiled.Evaluate(values);
         }
 
-        var weights = mechanics(Lagrangian, (double[])energies.Clone(), spec.Planck);
+        double[] weights;
+        try
+        {
+            weights = mechanics(Lagrangian, (double[])energies.Clone(), spec.Planck);
+        }
+        catch (MechanicsException e)
+        {
+            var problem = e.StateIndex is { } k
+                ? $"the Lagrangian fails for state '{deck.Grid.Labels[k]}' (state {k + 1}): {e.Message}"
+                : $"the Lagrangian gives no orbits: {e.Message}";
+            throw new DeckException(spec.Span, problem);
+        }
+
         if (weights.Length != energies.Length)
         {
             throw new InvalidOperationException($"the mechanics stage returned {weights.Length} weights for {energies.Length} states");
@@ -139,7 +164,7 @@ public static class StateSpaceBuilder
             }
         }
 
-        return weights.Select(w => Math.Log(w)).ToArray();
+        return weights;
     }
 
     private static double[] LogEquilibrium(Deck deck, double[] energies, double[] logWeights)

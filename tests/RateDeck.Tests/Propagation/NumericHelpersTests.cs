@@ -66,6 +66,12 @@ public class NumericHelpersTests
 
         var tiny = TrajectoryComparison.Compare(new Trajectory([0.0], [[1e-300]]), new Trajectory([0.0], [[3e-300]]));
         Assert.Equal(2.0 / 3.0, tiny.MaxRelative, 12);
+
+        // A state holding 1e-12 of the population, below RelativeFloor (1e-9): left out of the
+        // entrywise relative measure, still counted against the total.
+        var unresolved = TrajectoryComparison.Compare(new Trajectory([0.0], [[1.0, 1e-12]]), new Trajectory([0.0], [[1.0, 2e-12]]));
+        Assert.Equal(0.0, unresolved.MaxRelative);
+        Assert.Equal(1e-12, unresolved.MaxRelativeToTotal, 1e-20);
         Assert.Throws<ArgumentException>(() => TrajectoryComparison.Compare(a, new Trajectory([0.0], [[1.0, 0.0]])));
     }
 }

@@ -149,7 +149,7 @@ public class StateSpaceBuilderTests
     {
         var withoutLagrangian = TestDecks.Create(Coordinates(2), [1, 2], new MechanicsWeights(TestDecks.At(4)), TestDecks.NoCoupling);
         var deck = withoutLagrangian with { Mechanics = new MechanicsSpec("v^2/2 - q^2/2", 1.0, TestDecks.At(11)) };
-        var error = Assert.Throws<DeckException>(() => StateSpaceBuilder.Build(deck));
+        var error = Assert.Throws<DeckException>(() => StateSpaceBuilder.Build(deck, null));
         Assert.Equal(TestDecks.At(4), error.Span);
         Assert.Contains("mechanics stage", error.Problem, StringComparison.Ordinal);
     }

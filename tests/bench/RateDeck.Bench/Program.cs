@@ -3,11 +3,13 @@ using RateDeck.Bench;
 
 // Benchmarks, not tests: run in Release on a quiet machine and compare ratios on one machine.
 //   dotnet run -c Release --project tests/bench/RateDeck.Bench -- eigen [--sizes 500,1000,2000] [--runs 3] [--managed-max 1000]
+//   dotnet run -c Release --project tests/bench/RateDeck.Bench -- kernel-assembly [--sizes 2000]
 // A new suite is one more entry in the table below.
 var suites = new Dictionary<string, Action<BenchOptions>>
 {
     ["eigen"] = options => EigenBench.Run(options.Sizes, options.Runs, options.ManagedMaxSize, Console.Out),
     ["expressions"] = options => ExpressionBenchmark.Run(options.Sizes.Max()),
+    ["kernel-assembly"] = options => KernelAssemblyBenchmark.Run(options.Sizes.Max()),
 };
 
 if (args.Length == 0 || !suites.TryGetValue(args[0], out var suite))

@@ -1,0 +1,87 @@
+using RateDeck.Cli.CommandLine;
+using RateDeck.Diagnostics;
+using RateDeck.Outputs;
+using RateDeck.Pipeline;
+using RateDeck.Text;
+
+namespace RateDeck.Cli.Verbs;
+
+/// <summary>
+/// <c>ratedeck steady DECK</c>: the steady state the deck's initial state settles into: the
+/// projection onto the null space per closed class when undriven, P = -K^(-1) s when driven, with
+/// the residual and the approach time. Exit 4 when no steady state exists.
+/// </summary>
+public sealed class SteadyVerb : IVerb
+{
+    private const int _listedStates = 12;
+
+    /// <inheritdoc />
+    public VerbSyntax Syntax { get; } = new("steady", "the steady state reached from the deck's initial state, its residual and approach time",
+    [
+        new("--out", "DIR", "output folder for steady-state.csv (default: ratedeck-out/<deck name>)"),
+    ]);
+
+    /// <inheritdoc />
+    public int Execute(ParsedArguments args, VerbContext context)
+    {
+        var loaded = VerbSupport.Load(args);
+        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
+        var initial = RunSetup.InitialPopulations(loaded.Deck, loaded.States);
+        var steady = SteadyState.Compute(loaded.Rates, spectrum, initial, loaded.Algebra);
+        var folder = VerbSupport.OutputFolder(args, loaded.Deck);
+        string? file = null;
+        if (steady.Populations is { } populations)
+        {
+            Directory.CreateDirectory(folder);
+            file = Path.Combine(folder, "steady-state.csv");
+            ResultCsv.WriteSteadyState(file, OutputHeader.For(loaded.Deck), loaded.States.Labels, loaded.States.Coordinates, populations, loaded.States.LogEquilibrium);
+        }
+
+        if (args.Has("--json"))
+        {
+            var fields = VerbSupport.JsonFields(loaded);
+            fields["kind"] = steady.Kind.ToString().ToLowerInvariant();
+            fields["exists"] = steady.Exists;
+            fields["residual"] = steady.Residual;
+            fields["approach_time"] = steady.ApproachTime;
+            fields["total_population"] = steady.Populations?.Sum();
+            fields["lost_mass"] = steady.LostMass;
+            fields["class_masses"] = steady.ClassMasses.Select(c => new { states = c.Class.Labels, mass = c.Mass }).ToArray();
+            fields["labels"] = loaded.States.Labels;
+            fields["populations"] = steady.Populations;
+            fields["message"] = steady.Message;
+            fields["file"] = file;
+            JsonSummary.Write(context.Out, fields);
+            context.Out.WriteLine();
+        }
+        else
+        {
+            WriteSummary(context.Out, loaded, steady, file);
+        }
+
+        return steady.Exists ? ExitCodes.Success : ExitCodes.CheckFailed;
+    }
+
+    private static void WriteSummary(TextWriter output, LoadedDeck loaded, SteadyStateResult steady, string? file)
+    {
+        VerbSupport.WriteDeckLine(output, loaded);
+        output.WriteLine($"steady state {steady.Message}");
+        if (steady.Populations is not { } populations)
+        {
+            return;
+        }
+
+        output.WriteLine($"  residual |K P + s| = {Format.Number(steady.Residual ?? double.NaN)}, approach time {Format.Number(steady.ApproachTime)} {loaded.Deck.TimeUnit}, total population {Format.Number(populations.Sum())}");
+        output.WriteLine();
+        var labels = loaded.States.Labels;
+        var shown = labels.Length <= _listedStates ? Enumerable.Range(0, labels.Length) : Enumerable.Range(0, labels.Length).OrderByDescending(i => populations[i]).Take(_listedStates).Order();
+        output.WriteLine(labels.Length <= _listedStates ? "  state        population" : $"  state        population   (the {_listedStates} most populated of {labels.Length}; all in the CSV)");
+        foreach (var i in shown)
+        {
+            output.WriteLine($"  {labels[i],-12} {Format.Number(populations[i])}");
+        }
+
+        output.WriteLine();
+        output.WriteLine($"wrote {file}");
+    }
+}

@@ -1,0 +1,51 @@
+using RateDeck.Decks;
+using RateDeck.States;
+
+namespace RateDeck.Pipeline;
+
+/// <summary>What a deck's [initial] and [run] tables mean in numbers: P(0) and the output times.</summary>
+public static class RunSetup
+{
+    /// <summary>
+    /// P(0): all mass in one state, per-state values or an expression (each finite and >= 0), or
+    /// the normalised equilibrium pi (exp of ln pi; states below the smallest double start at 0).
+    /// </summary>
+    public static double[] InitialPopulations(Deck deck, StateSpace states) => deck.Initial switch
+    {
+        InitialInState single => Enumerable.Range(0, states.Count).Select(k => k == single.State ? 1.0 : 0.0).ToArray(),
+        InitialGiven given => PerStateEvaluator.Evaluate(deck, given.Source, "initial population", PerStateRequirement.NonNegative),
+        InitialEquilibrium => states.EquilibriumPopulations(),
+        _ => throw new NotSupportedException($"unknown initial state {deck.Initial.GetType().Name}"),
+    };
+
+    /// <summary>
+    /// The output times: t = 0, then <see cref="RunSpec.OutputCount"/> times up to t_end, evenly
+    /// spaced or geometric from t_first. The last time is exactly t_end.
+    /// </summary>
+    public static double[] OutputTimes(RunSpec run, double? endTimeOverride = null)
+    {
+        var end = endTimeOverride ?? run.EndTime;
+        var count = run.OutputCount;
+        var times = new double[count + 1];
+        if (run.Spacing == OutputSpacing.Logarithmic && count > 1)
+        {
+            var first = run.FirstTime ?? end * 1e-4;
+            var logFirst = Math.Log(first);
+            var step = (Math.Log(end) - logFirst) / (count - 1);
+            for (var k = 1; k <= count; k++)
+            {
+                times[k] = Math.Exp(logFirst + (k - 1) * step);
+            }
+        }
+        else
+        {
+            for (var k = 1; k <= count; k++)
+            {
+                times[k] = end * k / count;
+            }
+        }
+
+        times[count] = end;
+        return times;
+    }
+}
