@@ -64,7 +64,7 @@ internal static class RateCsvReader
         var headerLine = (int)reader.LineNumber;
         var header = ReadHeader(reader, file);
         var entries = new List<RateEntry>();
-        var firstLine = new Dictionary<(int, int), int>();
+        var given = new Rates.PairSet(states.Count);
         while (reader.Read())
         {
             if (reader.FieldCount != _columns.Length)
@@ -91,12 +91,13 @@ internal static class RateCsvReader
                 throw new DeckException(toSpan, $"this row goes against the declared direction = \"{declared}\" (the reverse rates are completed by detailed balance); fix the row or the direction");
             }
 
-            if (firstLine.TryGetValue((from, to), out var line))
+            if (!given.Add(from, to))
             {
+                // Rare: search for the first row only when there is one to report.
+                var line = entries.First(e => e.From == from && e.To == to).Span.Line;
                 throw new DeckException(fromSpan, $"the rate from this state to that one is already given on line {line}; give each pair once");
             }
 
-            firstLine[(from, to)] = fromSpan.Line;
             entries.Add(new RateEntry(from, to, rate, rateSpan));
         }
 
@@ -171,6 +172,10 @@ internal static class RateCsvReader
     /// <summary>The file's bytes, to turn byte offsets into one-based lines and character columns.</summary>
     private sealed class CsvFile(string path, byte[] bytes)
     {
+        private int _cursor;
+        private int _cursorLine = 1;
+        private int _cursorLineStart;
+
         public string Path { get; } = path;
 
         /// <summary>
@@ -196,19 +201,28 @@ internal static class RateCsvReader
             return SpanAtByte(offset + lead);
         }
 
+        /// <summary>
+        /// Line and column of a byte offset. Lines are counted from a cursor left by the previous
+        /// call (restarting from the top only when asked for an earlier line), so that reading a
+        /// file cell by cell costs O(file size) in all, not O(size) per cell.
+        /// </summary>
         public SourceSpan SpanAtByte(long offset)
         {
             var end = (int)Math.Clamp(offset, 0, bytes.Length);
-            var line = 1;
-            var lineStart = 0;
-            for (var k = 0; k < end; k++)
+            if (end < _cursorLineStart)
             {
-                if (bytes[k] == (byte)'\n')
-                {
-                    line++;
-                    lineStart = k + 1;
-                }
+                (_cursor, _cursorLine, _cursorLineStart) = (0, 1, 0);
             }
+
+            var newline = _cursor >= end ? -1 : bytes.AsSpan(_cursor, end - _cursor).LastIndexOf((byte)'\n');
+            if (newline >= 0)
+            {
+                _cursorLine += bytes.AsSpan(_cursor, newline + 1).Count((byte)'\n');
+                _cursorLineStart = _cursor + newline + 1;
+            }
+
+            _cursor = Math.Max(_cursor, end);
+            var (line, lineStart) = (_cursorLine, _cursorLineStart);
 
             // Skip a byte order mark so that columns count what an editor shows.
             var bom = lineStart == 0 && bytes.AsSpan().StartsWith((ReadOnlySpan<byte>)[0xEF, 0xBB, 0xBF]) ? 3 : 0;

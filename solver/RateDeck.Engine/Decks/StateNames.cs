@@ -22,6 +22,9 @@ internal sealed class StateNames
         }
     }
 
+    /// <summary>Number of states.</summary>
+    public int Count => _labels.Length;
+
     /// <summary>Resolves text (a label or a state number, as in a CSV cell).</summary>
     public int Resolve(string text, SourceSpan span)
     {
