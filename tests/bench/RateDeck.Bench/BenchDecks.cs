@@ -1,0 +1,130 @@
+using System.Globalization;
+using System.Text;
+
+namespace RateDeck.Bench;
+
+/// <summary>
+/// Writes the decks of the whole-process suites into a folder: a dense detailed-balance deck with
+/// measured one-way rates for every pair (deck.toml, rates.csv and problem.json, which tells
+/// tests/bench/reference_run.py the same problem), and a nearest-neighbour ladder model deck.
+/// Every number is invented for the benchmark.
+/// </summary>
+public static class BenchDecks
+{
+    /// <summary>Energy of state i (x_i = i, 1-based) is this times x, in units of kT.</summary>
+    public const double EnergySlope = 4.0;
+
+    /// <summary>
+    /// The dense deck of <paramref name="n"/> states: E_i = (4 / N) x_i with kT = 1 (pi spans
+    /// e^4), unit weights, and a rate toward the smaller state for every pair,
+    /// W(j -> i) = exp(-|j - i| / 50) (1 + 0.5 h(i, j)) with h a fixed hash in [0, 1);
+    /// 100 linear outputs to t_end = 2 (beyond the slowest relaxation), all population starting in
+    /// the top state. Rates are written with round-trip precision so that both readers get the same doubles.
+    /// </summary>
+    public static string WriteDense(string folder, int n)
+    {
+        Directory.CreateDirectory(folder);
+        var csv = new StringBuilder(n * n * 16);
+        csv.Append("from,to,rate\n");
+        for (var from = 2; from <= n; from++)
+        {
+            for (var to = 1; to < from; to++)
+            {
+                var hash = ((from * 7919L) + (to * 104729L)) % 1000 / 1000.0;
+                var rate = Math.Exp(-(from - to) / 50.0) * (1 + (0.5 * hash));
+                csv.Append(CultureInfo.InvariantCulture, $"{from},{to},{rate:R}\n");
+            }
+        }
+
+        File.WriteAllText(Path.Combine(folder, "rates.csv"), csv.ToString());
+        var slope = (EnergySlope / n).ToString("R", CultureInfo.InvariantCulture);
+        File.WriteAllText(Path.Combine(folder, "deck.toml"), $$"""
+            format = 1
+            title = "bench: dense detailed-balance deck, {{n}} states"
+
+            [units]
+            energy = "none"
+            time = "s"
+
+            [temperature]
+            kT = 1.0
+
+            [states]
+            spacing = "linear"
+            count = {{n}}
+            from = 1.0
+            to = {{n}}.0
+
+            [energies]
+            expression = "{{slope}} * x"
+
+            [transfer]
+            kind = "one_way"
+            direction = "toward_smaller"
+            csv = "rates.csv"
+
+            [initial]
+            state = {{n}}
+
+            [run]
+            t_end = 2.0
+            outputs = 100
+
+            """);
+        File.WriteAllText(Path.Combine(folder, "problem.json"), $$"""
+            {"n": {{n}}, "energy_slope": {{slope}}, "kT": 1.0, "t_end": 2.0, "outputs": 100, "initial_state": {{n}}}
+
+            """);
+        return Path.Combine(folder, "deck.toml");
+    }
+
+    /// <summary>
+    /// A nearest-neighbour ladder of <paramref name="n"/> states (kernel with band 1), rate 1 toward
+    /// the smaller state, E_i = 2 x_i / N (pi spans e^2), all population starting in the middle
+    /// state, <paramref name="outputs"/> logarithmic outputs to t_end = N^2 / 4 (about the
+    /// slowest relaxation time N^2 / pi^2 of a unit-rate walk, times 2.5).
+    /// </summary>
+    public static string WriteLadder(string folder, int n, int outputs)
+    {
+        Directory.CreateDirectory(folder);
+        var slope = (2.0 / n).ToString("R", CultureInfo.InvariantCulture);
+        var end = (n * (double)n / 4).ToString("R", CultureInfo.InvariantCulture);
+        File.WriteAllText(Path.Combine(folder, "ladder.toml"), $$"""
+            format = 1
+            title = "bench: nearest-neighbour ladder, {{n}} states"
+
+            [units]
+            energy = "none"
+            time = "s"
+
+            [temperature]
+            kT = 1.0
+
+            [states]
+            spacing = "linear"
+            count = {{n}}
+            from = 1.0
+            to = {{n}}.0
+
+            [energies]
+            expression = "{{slope}} * x"
+
+            [transfer]
+            kind = "kernel"
+            direction = "toward_smaller"
+            kernel = "1"
+            band = 1
+
+            [initial]
+            state = {{n / 2}}
+
+            [run]
+            t_end = {{end}}
+            outputs = {{outputs}}
+            spacing = "log"
+            t_first = 1.0
+
+            """);
+        return Path.Combine(folder, "ladder.toml");
+    }
+}

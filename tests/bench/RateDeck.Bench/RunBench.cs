@@ -1,0 +1,97 @@
+using System.Globalization;
+
+namespace RateDeck.Bench;
+
+/// <summary>
+/// Whole-process timings: <c>ratedeck run DECK --exact-only --no-plots</c> against
+/// tests/bench/reference_run.py on the same generated dense deck (<see cref="BenchDecks.WriteDense"/>),
+/// each a child process under GNU time, one warm-up of each, then runs round-robin; median and
+/// minimum wall time and median peak resident memory. Also prints the memory budget of the
+/// target, 6 N^2 doubles + 200 MB.
+/// </summary>
+public static class RunBench
+{
+    /// <summary>Runs the suite for each size; <paramref name="withReference"/> false times ratedeck alone (the memory suite).</summary>
+    public static void Run(IReadOnlyList<int> sizes, int runs, bool withReference, TextWriter output)
+    {
+        var cli = Repository.Cli();
+        var script = Path.Combine(Repository.Root, "tests", "bench", "reference_run.py");
+        output.WriteLine($"ratedeck: {cli}; reference: /usr/bin/python3 {script}");
+        output.WriteLine($"timing: child processes under /usr/bin/time -v, 1 warm-up each, then {runs} runs round-robin");
+        output.WriteLine();
+        output.WriteLine($"{"N",6}  {"contender",-12}  {"median s",9}  {"min s",9}  {"max s",9}  {"peak MB",9}  {"budget MB",9}");
+        foreach (var n in sizes)
+        {
+            var folder = Path.Combine(Path.GetTempPath(), $"ratedeck-bench-dense-{n}");
+            var deck = BenchDecks.WriteDense(folder, n);
+            var contenders = new List<(string Label, Func<ProcessMeasure> Work)>
+            {
+                ("ratedeck", () => ProcessRun.Measure(cli, ["run", deck, "--exact-only", "--no-plots", "--out", Path.Combine(folder, "out")])),
+            };
+            if (withReference)
+            {
+                contenders.Add(("reference", () => ProcessRun.Measure("/usr/bin/python3", [script, folder])));
+            }
+
+            var samples = contenders.Select(_ => new List<ProcessMeasure>()).ToArray();
+            foreach (var contender in contenders)
+            {
+                contender.Work();
+            }
+
+            for (var run = 0; run < runs; run++)
+            {
+                for (var c = 0; c < contenders.Count; c++)
+                {
+                    samples[c].Add(contenders[c].Work());
+                }
+            }
+
+            var budget = ((6.0 * n * n * 8) / (1024 * 1024)) + 200;
+            for (var c = 0; c < contenders.Count; c++)
+            {
+                var seconds = samples[c].Select(s => s.Seconds).ToArray();
+                output.WriteLine(string.Create(
+                    CultureInfo.InvariantCulture,
+                    $"{n,6}  {contenders[c].Label,-12}  {Timing.Median(seconds),9:F2}  {seconds.Min(),9:F2}  {seconds.Max(),9:F2}  {Timing.Median([.. samples[c].Select(s => s.PeakMegabytes)]),9:F0}  {budget,9:F0}"));
+            }
+
+            if (withReference)
+            {
+                var ratio = Timing.Median([.. samples[0].Select(s => s.Seconds)]) / Timing.Median([.. samples[1].Select(s => s.Seconds)]);
+                output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"{n,6}  ratedeck / reference wall time (medians): {ratio:F2}"));
+            }
+        }
+    }
+}
+
+/// <summary>Where the repository and the built command-line program are.</summary>
+public static class Repository
+{
+    /// <summary>The repository root: the first folder above the bench binary that holds solver/.</summary>
+    public static string Root { get; } = FindRoot();
+
+    /// <summary>
+    /// The ratedeck program built in Release (<c>dotnet build -c Release solver/RateDeck.Cli</c>),
+    /// or the path in RATEDECK_BENCH_CLI.
+    /// </summary>
+    public static string Cli()
+    {
+        var path = Environment.GetEnvironmentVariable("RATEDECK_BENCH_CLI")
+            ?? Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "Release", "net10.0", "ratedeck");
+        return File.Exists(path) ? path : throw new InvalidOperationException($"{path} not found: run dotnet build -c Release solver/RateDeck.Cli first");
+    }
+
+    private static string FindRoot()
+    {
+        for (var folder = new DirectoryInfo(AppContext.BaseDirectory); folder is not null; folder = folder.Parent)
+        {
+            if (Directory.Exists(Path.Combine(folder.FullName, "solver")))
+            {
+                return folder.FullName;
+            }
+        }
+
+        throw new InvalidOperationException("cannot find the repository root above the bench binary");
+    }
+}
