@@ -300,7 +300,7 @@ public static partial class DeckReader
                 _ => throw transfer.Missing("direction", "\"toward_smaller\" or \"toward_larger\", the direction of the given rates"),
             };
 
-        private (List<RateEntry> Entries, SourceSpan Span) ReadCsv(DeckSection transfer, RateCsvReader.Rules rules)
+        private (IReadOnlyList<RateEntry> Entries, SourceSpan Span) ReadCsv(DeckSection transfer, RateCsvReader.Rules rules)
         {
             var csv = transfer.RequireString("csv", "the file of measured rates, columns from,to,rate");
             var given = (string)csv.Value;

@@ -19,7 +19,7 @@ internal static class RateCsvReader
     /// <param name="Direction">For one-way data, the direction every row must go; null for a full matrix.</param>
     public sealed record Rules(TransferDirection? Direction);
 
-    public static List<RateEntry> Read(string displayPath, string fullPath, SourceSpan reference, StateNames states, Rules rules)
+    public static IReadOnlyList<RateEntry> Read(string displayPath, string fullPath, SourceSpan reference, StateNames states, Rules rules)
     {
         byte[] bytes;
         try
@@ -54,7 +54,7 @@ internal static class RateCsvReader
         }
     }
 
-    private static List<RateEntry> ReadRows(CsvReader reader, CsvFile file, StateNames states, Rules rules)
+    private static RateEntryTable ReadRows(CsvReader reader, CsvFile file, StateNames states, Rules rules)
     {
         if (!reader.Read())
         {
@@ -63,8 +63,10 @@ internal static class RateCsvReader
 
         var headerLine = (int)reader.LineNumber;
         var header = ReadHeader(reader, file);
-        var entries = new List<RateEntry>();
+        // One row a line: the line count bounds the rows, so the table is sized once.
+        var entries = new RateEntryTable(file.Path, file.LineCount);
         var given = new Rates.PairSet(states.Count);
+        var (fromColumn, toColumn, rateColumn) = (header["from"], header["to"], header["rate"]);
         while (reader.Read())
         {
             if (reader.FieldCount != _columns.Length)
@@ -73,32 +75,31 @@ internal static class RateCsvReader
                 throw new DeckException(at, $"this row has {reader.FieldCount} cells; every row needs {_columns.Length}: from,to,rate");
             }
 
-            var fromSpan = file.Cell(reader, header["from"]);
-            var toSpan = file.Cell(reader, header["to"]);
-            var rateSpan = file.Cell(reader, header["rate"]);
-            var from = states.Resolve(NonEmpty(reader, header["from"], fromSpan), fromSpan);
-            var to = states.Resolve(NonEmpty(reader, header["to"], toSpan), toSpan);
-            var rate = ParseRate(NonEmpty(reader, header["rate"], rateSpan), rateSpan);
+            // The state cells' positions are worked out only for an error message; the rate cell's is kept.
+            var from = ResolveState(reader, file, states, fromColumn);
+            var to = ResolveState(reader, file, states, toColumn);
+            var rateSpan = file.Cell(reader, rateColumn);
+            var rate = ParseRate(NonEmpty(reader, rateColumn, rateSpan), rateSpan);
 
             if (from == to)
             {
-                throw new DeckException(toSpan, "a state cannot have a rate to itself: the diagonal of the rate matrix follows from conservation; remove this row");
+                throw new DeckException(file.Cell(reader, toColumn), "a state cannot have a rate to itself: the diagonal of the rate matrix follows from conservation; remove this row");
             }
 
             if (rules.Direction is { } direction && (direction == TransferDirection.TowardSmaller ? to > from : to < from))
             {
                 var declared = direction == TransferDirection.TowardSmaller ? "toward_smaller" : "toward_larger";
-                throw new DeckException(toSpan, $"this row goes against the declared direction = \"{declared}\" (the reverse rates are completed by detailed balance); fix the row or the direction");
+                throw new DeckException(file.Cell(reader, toColumn), $"this row goes against the declared direction = \"{declared}\" (the reverse rates are completed by detailed balance); fix the row or the direction");
             }
 
             if (!given.Add(from, to))
             {
                 // Rare: search for the first row only when there is one to report.
-                var line = entries.First(e => e.From == from && e.To == to).Span.Line;
-                throw new DeckException(fromSpan, $"the rate from this state to that one is already given on line {line}; give each pair once");
+                var line = entries.FirstLineOf(from, to);
+                throw new DeckException(file.Cell(reader, fromColumn), $"the rate from this state to that one is already given on line {line}; give each pair once");
             }
 
-            entries.Add(new RateEntry(from, to, rate, rateSpan));
+            entries.Add(from, to, rate, rateSpan);
         }
 
         if (entries.Count == 0)
@@ -136,6 +137,19 @@ internal static class RateCsvReader
         }
 
         return header;
+    }
+
+    /// <summary>The state named in cell <paramref name="index"/>; its position is computed only to report a problem.</summary>
+    private static int ResolveState(CsvReader reader, CsvFile file, StateNames states, int index)
+    {
+        var text = reader.GetString(index);
+        if (text.Length > 0 && states.TryResolve(text, out var state))
+        {
+            return state;
+        }
+
+        var span = file.Cell(reader, index);
+        return states.Resolve(NonEmpty(reader, index, span), span);
     }
 
     private static string NonEmpty(CsvReader reader, int index, SourceSpan span)
@@ -177,6 +191,9 @@ internal static class RateCsvReader
         private int _cursorLineStart;
 
         public string Path { get; } = path;
+
+        /// <summary>Number of line breaks, plus one.</summary>
+        public int LineCount => bytes.AsSpan().Count((byte)'\n') + 1;
 
         /// <summary>
         /// The span of cell <paramref name="index"/> of the current record: its first character

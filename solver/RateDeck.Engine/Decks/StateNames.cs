@@ -25,6 +25,23 @@ internal sealed class StateNames
     /// <summary>Number of states.</summary>
     public int Count => _labels.Length;
 
+    /// <summary>Resolves a label or a state number in range without reporting anything; false when <see cref="Resolve(string, SourceSpan)"/> would throw.</summary>
+    public bool TryResolve(string text, out int index)
+    {
+        if (_index.TryGetValue(text, out index))
+        {
+            return true;
+        }
+
+        if (long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var number) && number >= 1 && number <= _labels.Length)
+        {
+            index = (int)(number - 1);
+            return true;
+        }
+
+        return false;
+    }
+
     /// <summary>Resolves text (a label or a state number, as in a CSV cell).</summary>
     public int Resolve(string text, SourceSpan span)
     {

@@ -148,7 +148,9 @@ public sealed class Spectrum
             return ComputeBand(rates, algebra, reason);
         }
 
-        var symmetric = algebra.SymmetricEigen(SymmetrizedGenerator.Build(rates));
+        // S is built only to be decomposed, so the native solver may work in its storage (one N x N copy fewer).
+        var built = SymmetrizedGenerator.Build(rates);
+        var symmetric = algebra is OpenBlasLinearAlgebra native ? native.SymmetricEigenOverwriting(built) : algebra.SymmetricEigen(built);
         return new Spectrum(rates, SpectrumPath.Symmetrized, reason, [.. symmetric.Values.Select(v => new Complex(v, 0))], symmetric, null);
     }
 

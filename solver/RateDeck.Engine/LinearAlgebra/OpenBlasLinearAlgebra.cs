@@ -77,13 +77,24 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
     }
 
     /// <inheritdoc />
-    public SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric)
+    public SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric) => Decompose(symmetric, overwrite: false);
+
+    /// <summary>
+    /// As <see cref="SymmetricEigen(DenseMatrix)"/>, but LAPACK works in the storage of
+    /// <paramref name="symmetric"/>, which is destroyed (with dsyevd_ it holds the eigenvectors
+    /// afterwards and the result shares it): one N x N copy fewer, for callers that built the
+    /// matrix only to decompose it.
+    /// </summary>
+    public SymmetricEigenDecomposition SymmetricEigenOverwriting(DenseMatrix symmetric) => Decompose(symmetric, overwrite: true);
+
+    private SymmetricEigenDecomposition Decompose(DenseMatrix symmetric, bool overwrite)
     {
         var n = RequireSquare(symmetric, nameof(symmetric));
         var values = new double[n];
+        var a = overwrite ? symmetric.Values : (double[])symmetric.Values.Clone();
         var vectors = SymmetricDriver == SymmetricEigenDriver.DivideAndConquer
-            ? SymmetricEigenDivideAndConquer(symmetric, values)
-            : SymmetricEigenRelativelyRobust(symmetric, values);
+            ? SymmetricEigenDivideAndConquer(a, n, values)
+            : SymmetricEigenRelativelyRobust(a, n, values);
         return new SymmetricEigenDecomposition(values, new DenseMatrix(n, n, vectors));
     }
 
@@ -236,12 +247,12 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
         return values;
     }
 
-    private double[] SymmetricEigenDivideAndConquer(DenseMatrix symmetric, double[] values)
+    /// <summary>dsyevd_ on <paramref name="a"/> (overwritten by the eigenvectors, which are returned).</summary>
+    private double[] SymmetricEigenDivideAndConquer(double[] a, int order, double[] values)
     {
-        int n = symmetric.RowCount, lda = n, lwork = -1, liwork = -1, iquery = 0, info;
+        int n = order, lda = n, lwork = -1, liwork = -1, iquery = 0, info;
         double query = 0;
         byte jobz = Fortran.Vectors, uplo = Fortran.Lower;
-        var a = (double[])symmetric.Values.Clone();
         fixed (double* pa = a, pw = values)
         {
             _lapack.Dsyevd(&jobz, &uplo, &n, pa, &lda, pw, &query, &lwork, &iquery, &liwork, &info, Fortran.CharLength, Fortran.CharLength);
@@ -258,14 +269,14 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
         return a;
     }
 
-    private double[] SymmetricEigenRelativelyRobust(DenseMatrix symmetric, double[] values)
+    /// <summary>dsyevr_ on <paramref name="a"/> (destroyed); returns the eigenvectors.</summary>
+    private double[] SymmetricEigenRelativelyRobust(double[] a, int order, double[] values)
     {
-        int n = symmetric.RowCount, lda = n, ldz = n, il = 0, iu = 0, found = 0, lwork = -1, liwork = -1, iquery = 0, info;
+        int n = order, lda = n, ldz = n, il = 0, iu = 0, found = 0, lwork = -1, liwork = -1, iquery = 0, info;
 
         // abstol = 0 lets LAPACK pick its default; the MRRR path computes to high relative accuracy regardless.
         double vl = 0, vu = 0, abstol = 0, query = 0;
         byte jobz = Fortran.Vectors, range = Fortran.All, uplo = Fortran.Lower;
-        var a = (double[])symmetric.Values.Clone();
         var z = new double[n * n];
         var support = new int[2 * n];
         fixed (double* pa = a, pw = values, pz = z)

@@ -10,6 +10,7 @@ var suites = new Dictionary<string, Action<BenchOptions>>
     ["eigen"] = options => EigenBench.Run(options.Sizes, options.Runs, options.ManagedMaxSize, Console.Out),
     ["expressions"] = options => ExpressionBenchmark.Run(options.Sizes.Max()),
     ["run"] = options => RunBench.Run(options.Sizes, options.Runs, withReference: true, Console.Out),
+    ["run-stages"] = options => RunPhases.Run(options.Sizes.Max(), Console.Out),
     ["memory"] = options => RunBench.Run(options.Sizes, options.Runs, withReference: false, Console.Out),
     ["ladder"] = options => LadderBench.Run(options.Sizes, options.Runs, Console.Out),
     ["kernel-assembly"] = options => KernelAssemblyBenchmark.Run(options.Sizes.Max()),

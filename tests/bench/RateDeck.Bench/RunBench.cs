@@ -95,3 +95,38 @@ public static class Repository
         throw new InvalidOperationException("cannot find the repository root above the bench binary");
     }
 }
+
+/// <summary>The stages of one <c>run</c>, timed in process, to show where the whole-process time goes.</summary>
+public static class RunPhases
+{
+    /// <summary>Loads the dense deck of <paramref name="n"/> states and times each stage once (after one warm-up of all).</summary>
+    public static void Run(int n, TextWriter output)
+    {
+        var folder = Path.Combine(Path.GetTempPath(), $"ratedeck-bench-dense-{n}");
+        var deck = BenchDecks.WriteDense(folder, n);
+        var algebra = LinearAlgebra.LinearAlgebraProviders.Select(null, out _);
+        for (var pass = 0; pass < 2; pass++)
+        {
+            var clock = System.Diagnostics.Stopwatch.StartNew();
+            var read = Decks.DeckReader.Read(deck, []);
+            var tRead = clock.Elapsed.TotalSeconds;
+            var loaded = Pipeline.DeckPipeline.Assemble(read, algebra);
+            var tAssemble = clock.Elapsed.TotalSeconds;
+            var spectrum = Diagnostics.Spectrum.Compute(loaded.Rates, algebra);
+            var tSpectrum = clock.Elapsed.TotalSeconds;
+            var initial = new double[n];
+            initial[n - 1] = 1;
+            var times = Enumerable.Range(0, 101).Select(k => 2.0 * k / 100).ToArray();
+            var trajectory = Propagation.ExactPropagatorChoice.Choose(loaded.Rates, algebra, 0, initial, spectrum).Propagate(initial, times);
+            var tPropagate = clock.Elapsed.TotalSeconds;
+            var steady = Diagnostics.SteadyState.Compute(loaded.Rates, spectrum, initial, algebra);
+            var tSteady = clock.Elapsed.TotalSeconds;
+            if (pass == 1)
+            {
+                output.WriteLine(string.Create(
+                    CultureInfo.InvariantCulture,
+                    $"stages, N = {n} (in process, second pass): read deck and CSV {tRead:F2} s, assemble {tAssemble - tRead:F2} s, spectrum {tSpectrum - tAssemble:F2} s, propagate 101 times {tPropagate - tSpectrum:F2} s, steady state {tSteady - tPropagate:F2} s; final total {trajectory.Populations[^1].Sum():R} ({steady.Kind})"));
+            }
+        }
+    }
+}
