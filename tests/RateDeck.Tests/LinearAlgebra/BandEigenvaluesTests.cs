@@ -56,3 +56,26 @@ public class BandEigenvaluesTests
         Assert.Contains("dsbev", band);
     }
 }
+
+public class OverwritingEigenTests
+{
+    [NativeFact]
+    public void OverwritingDecomposition_GivesTheSameEigenpairsAsTheCopyingOne()
+    {
+        // Second-difference matrix tridiag(-1, 2, -1) of order 50: eigenvalues 2 - 2 cos(k pi / 51)
+        // (closed form, common practice); the in-place call must agree with the copying one.
+        const int n = 50;
+        var a = MathNet.Numerics.LinearAlgebra.Double.DenseMatrix.Create(n, n, (i, j) => i == j ? 2.0 : Math.Abs(i - j) == 1 ? -1.0 : 0.0);
+        var copied = NativeLapack.Required.SymmetricEigen(a);
+
+        var overwritten = NativeLapack.Required.SymmetricEigenOverwriting((MathNet.Numerics.LinearAlgebra.Double.DenseMatrix)a.Clone());
+
+        for (var k = 0; k < n; k++)
+        {
+            Assert.Equal(2 - (2 * Math.Cos((k + 1) * Math.PI / (n + 1))), overwritten.Values[k], 1e-13);
+            Assert.Equal(copied.Values[k], overwritten.Values[k]);
+        }
+
+        Assert.Equal(copied.Vectors.Values, overwritten.Vectors.Values);
+    }
+}

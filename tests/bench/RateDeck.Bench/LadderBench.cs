@@ -11,8 +11,8 @@ namespace RateDeck.Bench;
 /// The sparse path on nearest-neighbour ladders (<see cref="BenchDecks.WriteLadder"/>):
 /// (1) whole-process <c>ratedeck run --exact-only --no-plots</c> at the largest size, 50 outputs,
 /// under GNU time; (2) in process, the stages of that run timed one by one (assembly, spectrum,
-/// exact propagation); (3) the cost of one explicit RK4 step at each size (1000 steps timed,
-/// median of the runs), which must grow like N; (4) at N = 2000, the largest difference between
+/// exact propagation); (3) the cost of one explicit RK4 step at each size (about 0.5 s of steps
+/// timed, median of the runs), which must grow like N; (4) at N = 2000, the largest difference between
 /// the sparse exact path and the dense symmetric eigen path, as a check that the timed path is right.
 /// </summary>
 public static class LadderBench
@@ -54,7 +54,8 @@ public static class LadderBench
         foreach (var n in sizes)
         {
             var rates = DeckPipeline.Load(BenchDecks.WriteLadder(Path.Combine(Path.GetTempPath(), $"ratedeck-bench-ladder-{n}"), n, 50), [], algebra).Rates;
-            const int steps = 1000;
+            // About 0.5 s of stepping per timed run at every size (1000 steps at the least).
+            var steps = Math.Max(1000, 200_000_000 / (40 * n));
             var rk4 = new RungeKutta4Propagator(rates, 0.1);
             var start = new double[n];
             start[n / 2] = 1.0;

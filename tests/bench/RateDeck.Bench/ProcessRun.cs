@@ -3,8 +3,9 @@ using System.Globalization;
 
 namespace RateDeck.Bench;
 
-/// <summary>Wall time and peak resident memory of one child process, measured by GNU time (<c>/usr/bin/time -v</c>, Debian package <c>time</c>).</summary>
+/// <summary>Wall time and peak resident memory (MB = 10^6 bytes) of one child process, measured by GNU time (<c>/usr/bin/time -v</c>, Debian package <c>time</c>).</summary>
 public sealed record ProcessMeasure(double Seconds, double PeakMegabytes, int ExitCode);
+
 
 /// <summary>Runs a command under /usr/bin/time -v and reads its report.</summary>
 public static class ProcessRun
@@ -38,7 +39,8 @@ public static class ProcessRun
             throw new InvalidOperationException($"{program} {string.Join(' ', arguments)} exited {exit}:\n{report}");
         }
 
-        return new ProcessMeasure(WallSeconds(report), Field(report, "Maximum resident set size (kbytes)") / 1024.0, exit);
+        // GNU time reports kibibytes; megabytes here are 10^6 bytes, as in the memory target.
+        return new ProcessMeasure(WallSeconds(report), Field(report, "Maximum resident set size (kbytes)") * 1024.0 / 1e6, exit);
     }
 
     private static double Field(string report, string name)

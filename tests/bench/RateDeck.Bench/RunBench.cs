@@ -47,7 +47,7 @@ public static class RunBench
                 }
             }
 
-            var budget = ((6.0 * n * n * 8) / (1024 * 1024)) + 200;
+            var budget = (6.0 * n * n * 8 / 1e6) + 200; // MB = 10^6 bytes
             for (var c = 0; c < contenders.Count; c++)
             {
                 var seconds = samples[c].Select(s => s.Seconds).ToArray();
