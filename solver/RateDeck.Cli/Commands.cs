@@ -47,6 +47,11 @@ public static class Commands
             stderr.WriteLine(e.Message);
             return ExitCodes.BadInput;
         }
+        catch (Rates.DenseStorageException e)
+        {
+            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
+            return ExitCodes.BadInput;
+        }
         catch (IOException e)
         {
             stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: could not write output: {e.Message}");

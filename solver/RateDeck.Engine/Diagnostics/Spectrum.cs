@@ -44,6 +44,9 @@ public sealed class Spectrum
     /// <summary>Machine epsilon of double, 2^-52.</summary>
     public const double MachineEpsilon = 2.220446049250313e-16;
 
+    /// <summary>Inverse-iteration steps for a null vector of a sparse S (see <see cref="ComputeBand"/>).</summary>
+    private const int _inverseIterations = 8;
+
     private readonly double[] _logEquilibrium;
     private readonly double[][] _nullBasis;
     private readonly int _nullDimension;
@@ -161,7 +164,7 @@ public sealed class Spectrum
     /// two-way, so S is block diagonal over the closed classes and each block has at most one
     /// zero eigenvalue). The shift sigma = 1e-2 of the zero tolerance sits between the zero
     /// eigenvalue and the slowest decay of any mode that the tolerance can tell from zero, so
-    /// each step shrinks the other modes by at least 1e-2; <see cref="InverseIterations"/> steps
+    /// each step shrinks the other modes by at least 1e-2; <see cref="_inverseIterations"/> steps
     /// leave 1e-16 of them. A block's vector counts as a null vector when its Rayleigh quotient is
     /// within the zero tolerance.
     /// </summary>
@@ -191,9 +194,6 @@ public sealed class Spectrum
         return new Spectrum(rates, SpectrumPath.Symmetrized, sparseReason, [.. values.Select(v => new Complex(v, 0))], null, null, [.. basis]);
     }
 
-    /// <summary>Inverse-iteration steps for a null vector of a sparse S (see <see cref="ComputeBand"/>).</summary>
-    private const int InverseIterations = 8;
-
     /// <summary>The unit eigenvector of the block of S on <paramref name="states"/> whose eigenvalue is nearest zero, and its Rayleigh quotient.</summary>
     private static (double[] Vector, double Rayleigh) SlowestVector(SymmetricBand band, int[] states, double tolerance)
     {
@@ -219,7 +219,7 @@ public sealed class Spectrum
         // (sigma I - S) x = u: the solver forms z I - t S, here with z = sigma and t = 1.
         var solver = new Propagation.ComplexBandSolver(block, 1);
         var u = Enumerable.Repeat(1.0 / Math.Sqrt(m), m).ToArray();
-        for (var step = 0; step < InverseIterations; step++)
+        for (var step = 0; step < _inverseIterations; step++)
         {
             var x = solver.Solve(new Complex(1e-2 * tolerance, 0), 1.0, [u]);
             var norm = 0.0;
