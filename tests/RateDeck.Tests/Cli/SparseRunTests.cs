@@ -1,0 +1,77 @@
+using System.Globalization;
+using System.Text.Json;
+using RateDeck.Cli;
+using RateDeck.Tests.Support;
+using Xunit;
+
+namespace RateDeck.Tests.Cli;
+
+/// <summary>The run verb end to end on a deck the assembler stores sparse.</summary>
+public sealed class SparseRunTests
+{
+    [Fact]
+    public void Run_OnNearestNeighbourLadder_TakesSparsePathAndMatchesCosineExpansion()
+    {
+        // 1200 states, equal energies, unit rate between neighbours: the reflecting random walk,
+        // P_i(t) = sum_k e^(l_k t) v_k(i) v_k(0) / |v_k|^2 with l_k = -2(1 - cos(pi k / N)) and
+        // v_k(i) = cos(pi k (i + 1/2) / N) (G. Strang, SIAM Review 41 (1999) 135), from state 1.
+        const int n = 1200;
+        using var folder = new TempFolder();
+        var deck = folder.File("ladder.toml");
+        File.WriteAllText(deck, $"""
+            format = 1
+            title = "sparse ladder test"
+
+            [units]
+            energy = "none"
+            time = "s"
+
+            [temperature]
+            kT = 1.0
+
+            [states]
+            spacing = "linear"
+            count = {n}
+            from = 1.0
+            to = {n}.0
+
+            [energies]
+            expression = "0"
+
+            [transfer]
+            kind = "kernel"
+            direction = "toward_smaller"
+            kernel = "1"
+            band = 1
+
+            [initial]
+            state = 1
+
+            [run]
+            t_end = 5000.0
+            outputs = 4
+            """);
+
+        var (code, output, error) = CliRunner.Run("run", deck, "--json", "--no-plots", "--out", folder.File("out"));
+
+        Assert.True(code == ExitCodes.Success, error);
+        var root = JsonDocument.Parse(output).RootElement;
+        Assert.Equal("contour-exponential", root.GetProperty("propagator").GetString());
+        var rows = File.ReadAllLines(Path.Combine(folder.File("out"), "populations-exact.csv")).Where(l => !l.StartsWith('#')).Skip(1)
+            .Select(l => l.Split(',').Select(c => double.Parse(c, CultureInfo.InvariantCulture)).ToArray()).ToArray();
+        foreach (var row in rows)
+        {
+            foreach (var i in new[] { 0, 1, 10, 100, 600, n - 1 })
+            {
+                var expected = 0.0;
+                for (var k = 0; k < n; k++)
+                {
+                    var lambda = -2 * (1 - Math.Cos(Math.PI * k / n));
+                    expected += Math.Exp(lambda * row[0]) * Math.Cos(Math.PI * k * (i + 0.5) / n) * Math.Cos(Math.PI * k * 0.5 / n) / (k == 0 ? n : n / 2.0);
+                }
+
+                Assert.True(Math.Abs(row[1 + i] - expected) <= 1e-10, $"state {i + 1} at t = {row[0]}: {row[1 + i]} vs {expected}");
+            }
+        }
+    }
+}
