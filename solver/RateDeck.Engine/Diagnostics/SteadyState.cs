@@ -177,6 +177,12 @@ public static class SteadyState
     private static void SolveLeakingStates(RateMatrix rates, HashSet<int> conserving, double[] populations, ILinearAlgebra algebra)
     {
         var leaking = Enumerable.Range(0, rates.Count).Where(i => !conserving.Contains(i)).ToArray();
+        if (rates.IsSparse && rates.Origin == BalanceOrigin.CompletedByDetailedBalance)
+        {
+            SolveLeakingStatesBanded(rates, leaking, populations);
+            return;
+        }
+
         var block = leaking.Length == rates.Count
             ? rates.Generator
             : DenseMatrix.Create(leaking.Length, leaking.Length, (a, b) => rates.Generator[leaking[a], leaking[b]]);
@@ -185,6 +191,49 @@ public static class SteadyState
         for (var a = 0; a < leaking.Length; a++)
         {
             populations[leaking[a]] = solution[a, 0];
+        }
+    }
+
+    /// <summary>
+    /// x = -K_UU^(-1) s_U for a sparse K under detailed balance, without a dense matrix: in the
+    /// symmetrized variables y = D^(-1/2) x (scaled as in <see cref="Propagation.EquilibriumScaling"/>)
+    /// the system is S_UU y = -D^(-1/2) s_U, a symmetric band system solved by partially pivoted
+    /// elimination in O(N b^2).
+    /// </summary>
+    private static void SolveLeakingStatesBanded(RateMatrix rates, int[] leaking, double[] populations)
+    {
+        var band = SymmetrizedGenerator.BuildBand(rates);
+        var b = band.Bandwidth;
+        var local = new double[leaking.Length * (b + 1)];
+        for (var a = 0; a < leaking.Length; a++)
+        {
+            for (var c = a; c < Math.Min(leaking.Length, a + b + 1); c++)
+            {
+                local[(a * (b + 1)) + c - a] = band[leaking[c], leaking[a]];
+            }
+        }
+
+        var scaling = new Propagation.EquilibriumScaling(rates.States.LogEquilibrium);
+        var source = new double[rates.Count];
+        foreach (var i in leaking)
+        {
+            source[i] = -rates.Pumping[i];
+        }
+
+        var (scaled, logScale) = scaling.Scale(source);
+        var solver = new Propagation.ComplexBandSolver(new SymmetricBand(leaking.Length, b, local), 1);
+        try
+        {
+            // The solver forms z I - t S: z = 0 and t = -1 give S_UU itself.
+            var y = solver.Solve(System.Numerics.Complex.Zero, -1.0, [[.. leaking.Select(i => scaled[i])]]);
+            for (var a = 0; a < leaking.Length; a++)
+            {
+                populations[leaking[a]] = scaling.Unscale(y[a].Real, leaking[a], logScale);
+            }
+        }
+        catch (ArithmeticException e)
+        {
+            throw new SingularMatrixException($"the block of leaking states is singular ({e.Message})");
         }
     }
 
