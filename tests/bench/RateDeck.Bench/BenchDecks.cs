@@ -42,22 +42,7 @@ public static class BenchDecks
             format = 1
             title = "bench: dense detailed-balance deck, {{n}} states"
 
-            [units]
-            energy = "none"
-            time = "s"
-
-            [temperature]
-            kT = 1.0
-
-            [states]
-            spacing = "linear"
-            count = {{n}}
-            from = 1.0
-            to = {{n}}.0
-
-            [energies]
-            expression = "{{slope}} * x"
-
+            {{LinearGrid(n, slope)}}
             [transfer]
             kind = "one_way"
             direction = "toward_smaller"
@@ -93,22 +78,7 @@ public static class BenchDecks
             format = 1
             title = "bench: nearest-neighbour ladder, {{n}} states"
 
-            [units]
-            energy = "none"
-            time = "s"
-
-            [temperature]
-            kT = 1.0
-
-            [states]
-            spacing = "linear"
-            count = {{n}}
-            from = 1.0
-            to = {{n}}.0
-
-            [energies]
-            expression = "{{slope}} * x"
-
+            {{LinearGrid(n, slope)}}
             [transfer]
             kind = "kernel"
             direction = "toward_smaller"
@@ -127,4 +97,23 @@ public static class BenchDecks
             """);
         return Path.Combine(folder, "ladder.toml");
     }
+
+    /// <summary>The tables both bench decks share: model units, kT = 1, n linear states 1..n, E = slope x.</summary>
+    private static string LinearGrid(int n, string slope) => $"""
+        [units]
+        energy = "none"
+        time = "s"
+
+        [temperature]
+        kT = 1.0
+
+        [states]
+        spacing = "linear"
+        count = {n}
+        from = 1.0
+        to = {n}.0
+
+        [energies]
+        expression = "{slope} * x"
+        """;
 }
