@@ -1,4 +1,5 @@
 using RateDeck.Propagation;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Propagation;
@@ -30,13 +31,7 @@ public class ReflectingRandomWalkTests
             {
                 for (var i = 0; i < n; i++)
                 {
-                    var expected = 0.0;
-                    for (var k = 0; k < n; k++)
-                    {
-                        var lambda = -r * (2 - (2 * Math.Cos(Math.PI * k / n)));
-                        var norm = k == 0 ? n : n / 2.0;
-                        expected += Math.Exp(lambda * times[m]) * Cosine(k, i, n) * Cosine(k, start, n) / norm;
-                    }
+                    var expected = ReflectingWalk.Population(n, r, start, i, times[m]);
 
                     Assert.True(
                         Math.Abs(trajectory.Populations[m][i] - expected) <= tolerance,
@@ -45,6 +40,4 @@ public class ReflectingRandomWalkTests
             }
         }
     }
-
-    private static double Cosine(int k, int i, int n) => Math.Cos(Math.PI * k * (i + 0.5) / n);
 }

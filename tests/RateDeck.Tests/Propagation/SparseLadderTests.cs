@@ -1,6 +1,7 @@
 using RateDeck.LinearAlgebra;
 using RateDeck.Propagation;
 using RateDeck.Tests.LinearAlgebra;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Propagation;
@@ -27,13 +28,7 @@ public class SparseLadderTests
         {
             for (var i = 0; i < n; i++)
             {
-                var expected = 0.0;
-                for (var k = 0; k < n; k++)
-                {
-                    var lambda = -2 * r * (1 - Math.Cos(Math.PI * k / n));
-                    var norm = k == 0 ? n : n / 2.0;
-                    expected += Math.Exp(lambda * times[m]) * Math.Cos(Math.PI * k * (i + 0.5) / n) * Math.Cos(Math.PI * k * (start + 0.5) / n) / norm;
-                }
+                var expected = ReflectingWalk.Population(n, r, start, i, times[m]);
 
                 Assert.True(Math.Abs(trajectory.Populations[m][i] - expected) <= 1e-12, $"state {i} at t = {times[m]}: {trajectory.Populations[m][i]} vs {expected}");
             }
