@@ -34,7 +34,8 @@ public sealed class RunVerb : IVerb
         var loaded = VerbSupport.Load(args);
         var deck = loaded.Deck;
         var chosenMethod = method ?? deck.Run.Method;
-        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
+        var balance = loaded.Rates.Origin == Rates.BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(loaded.Rates) : null;
+        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra, balance);
         var limits = StepLimits.Analyze(spectrum, loaded.Rates, deck.Run.EndTime, null);
         var stabilityLimit = chosenMethod == ExplicitMethod.Euler ? limits.EulerStable.MaxStep : limits.Rk4Stable.MaxStep;
         var dt = ExplicitStep(args, deck.Run, stabilityLimit);
@@ -48,7 +49,6 @@ public sealed class RunVerb : IVerb
 
         var initial = RunSetup.InitialPopulations(deck, loaded.States);
         var times = RunSetup.OutputTimes(deck.Run);
-        var balance = loaded.Rates.Origin == Rates.BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(loaded.Rates) : null;
         var violation = balance is null ? 0 : balance.CycleViolation ?? balance.PairViolation;
         var exactPropagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
         var exact = Propagate(exactPropagator, initial, times, "exact", context);

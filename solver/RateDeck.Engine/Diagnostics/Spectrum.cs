@@ -121,7 +121,7 @@ public sealed class Spectrum
         Compute(rates, algebra, rates.Origin == BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(rates) : null);
 
     /// <summary>As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance already measured (null for completed matrices).</summary>
-    internal static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport? balance)
+    public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport? balance)
     {
         if ((rates.Sparse?.Values ?? rates.Generator.Values).Any(v => !double.IsFinite(v)))
         {
