@@ -1,4 +1,3 @@
-using System.Globalization;
 using System.Text.Json;
 using RateDeck.Cli;
 using RateDeck.Tests.Support;
@@ -9,32 +8,6 @@ namespace RateDeck.Tests.Cli;
 /// <summary>From the verb down to the exact propagator's choice: the balance report decides the path, not a bare number.</summary>
 public sealed class PropagatorChoiceTests
 {
-    /// <summary>
-    /// Three states, every off-diagonal rate 1 in a full measured matrix, deck energies 0, 1, 2 at
-    /// kT = 1. The matrix is balanced (it is symmetric), but for the uniform law, not for the
-    /// deck's Boltzmann law, so S = D^(-1/2) K D^(1/2) built with the deck's pi is not symmetric.
-    /// </summary>
-    private const string _deck = """
-        format = 1
-        title = "full matrix balanced for the uniform law"
-        [temperature]
-        kT = 1
-        [states]
-        coordinates = [1, 2, 3]
-        labels = ["a", "b", "c"]
-        [energies]
-        values = [0, 1, 2]
-        [transfer]
-        kind = "full"
-        csv = "rates.csv"
-        [initial]
-        state = "a"
-        [run]
-        t_end = 5
-        outputs = 20
-        spacing = "linear"
-        """;
-
     [Fact]
     public void Run_OnFullMatrixBalancedForAnotherEquilibrium_AvoidsTheSymmetricPathAndConservesMass()
     {
@@ -51,11 +24,10 @@ public sealed class PropagatorChoiceTests
         // K = J - 3 I with J the all-ones matrix; J^2 = 3 J gives exp(K t) = e^(-3t) I + (1 - e^(-3t)) J / 3
         // (derived by hand; a doubly stochastic generator relaxes to the uniform law, a known result).
         // From all mass in a: P_a = 1/3 + 2/3 e^(-3t), P_b = P_c = 1/3 - 1/3 e^(-3t).
-        var rows = File.ReadAllLines(Path.Combine(folder.File("out"), "populations-exact.csv")).Where(l => !l.StartsWith('#')).Skip(1).ToList();
-        Assert.Equal(21, rows.Count);
-        foreach (var row in rows)
+        var rows = ResultFiles.Rows(Path.Combine(folder.File("out"), "populations-exact.csv"));
+        Assert.Equal(21, rows.Length);
+        foreach (var cells in rows)
         {
-            var cells = row.Split(',').Select(c => double.Parse(c, CultureInfo.InvariantCulture)).ToArray();
             var decay = Math.Exp(-3 * cells[0]);
             Assert.Equal((1.0 / 3) + (2.0 / 3 * decay), cells[1], 1e-12);
             Assert.Equal((1.0 / 3) - (decay / 3), cells[2], 1e-12);
@@ -76,10 +48,11 @@ public sealed class PropagatorChoiceTests
         Assert.Contains(checks, c => c.GetProperty("name").GetString() == "equilibrium" && !c.GetProperty("passed").GetBoolean());
     }
 
-    private static string WriteDeck(TempFolder folder)
-    {
-        File.WriteAllText(folder.File("rates.csv"), "from,to,rate\na,b,1\nb,a,1\na,c,1\nc,a,1\nb,c,1\nc,b,1\n");
-        File.WriteAllText(folder.File("deck.toml"), _deck);
-        return folder.File("deck.toml");
-    }
+    /// <summary>
+    /// Three states, every off-diagonal rate 1 in a full measured matrix, deck energies 0, 1, 2 at
+    /// kT = 1. The matrix is balanced (it is symmetric), but for the uniform law, not for the
+    /// deck's Boltzmann law, so S = D^(-1/2) K D^(1/2) built with the deck's pi is not symmetric.
+    /// </summary>
+    private static string WriteDeck(TempFolder folder) => ResultFiles.FullMatrixDeck(folder, "uniform", "[0, 1, 2]",
+        "a,b,1\nb,a,1\na,c,1\nc,a,1\nb,c,1\nc,b,1\n", "[initial]\nstate = \"a\"\n[run]\nt_end = 5\noutputs = 20\nspacing = \"linear\"");
 }
