@@ -41,6 +41,12 @@ public sealed record BalanceReport(
         : OneWayCount == 0 && (CycleViolation ?? 0) <= DetailedBalance.CycleTolerance;
 
     /// <summary>
+    /// False for a matrix taken as given from a deck with neither energies nor weights: its pi is
+    /// the defaults, no claim of the user's, so a violation against it is reported as such.
+    /// </summary>
+    public bool DeckGivesEquilibrium { get; init; } = true;
+
+    /// <summary>
     /// The one policy deciding whether S = D^(-1/2) K D^(1/2), built with the deck's pi, is
     /// symmetric, so that the symmetric eigen paths (spectrum and exact propagation) may be taken:
     /// by construction for a completed matrix, else only when balance holds for the deck's own pi.
@@ -71,7 +77,9 @@ public sealed record BalanceReport(
             }
 
             var other = Holds ? "; the matrix is balanced for another equilibrium (its Kolmogorov cycles close), not the deck's" : "";
-            return $"no detailed balance for the deck's pi ({pair} > {Format.Number(DetailedBalance.PairTolerance)}){other}";
+            return DeckGivesEquilibrium
+                ? $"no detailed balance for the deck's pi ({pair} > {Format.Number(DetailedBalance.PairTolerance)}){other}"
+                : $"the deck gives no pi (no energies or weights), and K is not symmetric for the default pi ({pair} > {Format.Number(DetailedBalance.PairTolerance)}){other}";
         }
     }
 }
@@ -207,7 +215,10 @@ public static class DetailedBalance
         }
 
         var cycles = new CycleSearch(rates);
-        return new BalanceReport(worst, worstPair, oneWayCount, oneWay, cycles.WorstViolation, cycles.WorstCycle, cycles.Count, rates.Origin);
+        return new BalanceReport(worst, worstPair, oneWayCount, oneWay, cycles.WorstViolation, cycles.WorstCycle, cycles.Count, rates.Origin)
+        {
+            DeckGivesEquilibrium = rates.States.EquilibriumGiven != Decks.EquilibriumGiven.None,
+        };
     }
 
     /// <summary>Fundamental cycles of the two-way support graph against a breadth-first spanning forest.</summary>
