@@ -19,11 +19,12 @@ public sealed class RunVerb : IVerb
     /// <inheritdoc />
     public VerbSyntax Syntax { get; } = new("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, plots",
     [
-        new("--dt", "X|auto", "explicit time step (default: the deck's run.dt; auto = run.safety x the stability limit)"),
+        new("--dt", "X|auto", "explicit time step (default: the deck's run.dt; auto = the step whose estimated error meets run.accuracy, at most run.safety x the stability limit)"),
         new("--method", "euler|rk4", "explicit method (default: the deck's run.explicit)"),
         new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
         new("--exact-only", null, "skip the explicit method"),
         new("--allow-unstable", null, "run an explicit step above the stability limit anyway, to see it fail"),
+        new("--require-accuracy", null, "exit 4 when explicit and exact differ by more than run.accuracy of the total"),
         new("--no-plots", null, "write no PNG plots"),
     ]);
 
@@ -38,8 +39,14 @@ public sealed class RunVerb : IVerb
         var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra, balance);
         var limits = StepLimits.Analyze(spectrum, loaded.Rates, deck.Run.EndTime, null);
         var stabilityLimit = chosenMethod == ExplicitMethod.Euler ? limits.EulerStable.MaxStep : limits.Rk4Stable.MaxStep;
-        var dt = ExplicitStep(args, deck.Run, stabilityLimit);
+        var initial = RunSetup.InitialPopulations(deck, loaded.States);
+        var times = RunSetup.OutputTimes(deck.Run);
         var explicitWanted = !args.Has("--exact-only");
+        var automatic = AutomaticStep(args, deck.Run);
+        var accurate = explicitWanted && automatic
+            ? AccurateStepChoice.Choose(loaded.Rates, chosenMethod, initial, times, StepCap(deck.Run, chosenMethod, limits), deck.Run.Accuracy)
+            : null;
+        var dt = accurate?.Dt ?? (automatic ? StepCap(deck.Run, chosenMethod, limits) : args.PositiveNumber("--dt") ?? deck.Run.Dt!.Value);
         if (explicitWanted && dt > stabilityLimit && !args.Has("--allow-unstable"))
         {
             context.Error.WriteLine($"ratedeck run: dt = {Format.Number(dt)} is above the {VerbSupport.MethodName(chosenMethod)} stability limit {Format.Number(stabilityLimit)} for this deck; "
@@ -47,8 +54,6 @@ public sealed class RunVerb : IVerb
             return ExitCodes.UnsafeTimeStep;
         }
 
-        var initial = RunSetup.InitialPopulations(deck, loaded.States);
-        var times = RunSetup.OutputTimes(deck.Run);
         var violation = balance is null ? 0 : balance.CycleViolation ?? balance.PairViolation;
         var exactPropagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
         var exact = Propagate(exactPropagator, initial, times, "exact", context);
@@ -61,6 +66,7 @@ public sealed class RunVerb : IVerb
         }
 
         var difference = explicitResult is null ? null : TrajectoryComparison.Compare(exact, explicitResult);
+        var accuracyMet = difference is null ? default(bool?) : difference.MaxRelativeToTotal <= deck.Run.Accuracy;
         var steady = SteadyState.Compute(loaded.Rates, spectrum, initial, loaded.Algebra);
         var distance = SteadyDistance(exact.Populations[^1], steady.Populations);
 
@@ -76,6 +82,10 @@ public sealed class RunVerb : IVerb
             fields["explicit_method"] = explicitMethod;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
+            fields["dt_chosen_for_accuracy"] = accurate is not null;
+            fields["dt_error_estimate"] = accurate?.EstimatedError;
+            fields["accuracy_target"] = deck.Run.Accuracy;
+            fields["accuracy_met"] = accuracyMet;
             fields["max_abs_difference"] = difference?.MaxAbsolute;
             fields["max_rel_difference"] = difference?.MaxRelative;
             fields["max_difference_relative_to_total"] = difference?.MaxRelativeToTotal;
@@ -95,28 +105,37 @@ public sealed class RunVerb : IVerb
             if (explicitPropagator is not null)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
+                context.Out.WriteLine($"             {accurate?.Reason ?? "dt as given, not chosen for accuracy"}");
             }
 
             context.Out.WriteLine($"outputs      {times.Length} times to t = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
+            if (accuracyMet == false)
+            {
+                context.Out.WriteLine($"  ACCURACY: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above the accuracy target {Format.Number(deck.Run.Accuracy)} (run.accuracy); trust the exact result{(accurate is null ? ", or let dt = auto choose the step" : "")}");
+            }
+
             context.Out.WriteLine();
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
+        }
+
+        if (accuracyMet == false && args.Has("--require-accuracy"))
+        {
+            context.Error.WriteLine($"ratedeck run: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above run.accuracy = {Format.Number(deck.Run.Accuracy)} (--require-accuracy)");
+            return ExitCodes.CheckFailed;
         }
 
         return ExitCodes.Success;
     }
 
-    /// <summary>The explicit step: --dt, else the deck's run.dt, else (or for "auto") safety x the stability limit.</summary>
-    private static double ExplicitStep(ParsedArguments args, RunSpec run, double stabilityLimit)
-    {
-        var text = args.Value("--dt");
-        if (text == "auto" || (text is null && run.Dt is null))
-        {
-            return run.SafetyFactor * stabilityLimit;
-        }
+    /// <summary>True when the step is automatic: --dt auto, or neither --dt nor the deck's run.dt.</summary>
+    private static bool AutomaticStep(ParsedArguments args, RunSpec run) =>
+        args.Value("--dt") is { } text ? text == "auto" : run.Dt is null;
 
-        return args.PositiveNumber("--dt") ?? run.Dt!.Value;
-    }
+    /// <summary>The hard cap of an automatic step: run.safety x the stability limit, and for Euler the positivity limit too.</summary>
+    private static double StepCap(RunSpec run, ExplicitMethod method, StiffnessReport limits) => method == ExplicitMethod.Euler
+        ? Math.Min(run.SafetyFactor * limits.EulerStable.MaxStep, limits.Positivity.MaxStep)
+        : run.SafetyFactor * limits.Rk4Stable.MaxStep;
 
     private static Trajectory Propagate(IPropagator propagator, double[] initial, double[] times, string label, VerbContext context)
     {
