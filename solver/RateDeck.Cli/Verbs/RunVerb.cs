@@ -1,5 +1,4 @@
 using RateDeck.Cli.CommandLine;
-using RateDeck.Decks;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
 using RateDeck.Pipeline;
@@ -31,68 +30,57 @@ public sealed class RunVerb : IVerb
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        var method = VerbSupport.Method(args) ?? default(ExplicitMethod?);
+        var method = VerbSupport.Method(args);
         var loaded = VerbSupport.Load(args);
-        var deck = loaded.Deck;
-        var chosenMethod = method ?? deck.Run.Method;
-        var balance = loaded.Rates.Origin == Rates.BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(loaded.Rates) : null;
-        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra, balance);
-        var limits = StepLimits.Analyze(spectrum, loaded.Rates, deck.Run.EndTime, null);
-        var stabilityLimit = chosenMethod == ExplicitMethod.Euler ? limits.EulerStable.MaxStep : limits.Rk4Stable.MaxStep;
-        var initial = RunSetup.InitialPopulations(deck, loaded.States);
-        var times = RunSetup.OutputTimes(deck.Run);
-        var explicitWanted = !args.Has("--exact-only");
-        var automatic = AutomaticStep(args, deck.Run);
-        var accurate = explicitWanted && automatic
-            ? AccurateStepChoice.Choose(loaded.Rates, chosenMethod, initial, times, StepCap(deck.Run, chosenMethod, limits), deck.Run.Accuracy)
-            : null;
-        var dt = accurate?.Dt ?? (automatic ? StepCap(deck.Run, chosenMethod, limits) : args.PositiveNumber("--dt") ?? deck.Run.Dt!.Value);
-        if (explicitWanted && dt > stabilityLimit && !args.Has("--allow-unstable"))
+        var dtText = args.Value("--dt");
+        var run = new DeckRun(loaded, new RunOptions
         {
-            context.Error.WriteLine($"ratedeck run: dt = {Format.Number(dt)} is above the {VerbSupport.MethodName(chosenMethod)} stability limit {Format.Number(stabilityLimit)} for this deck; "
+            Method = method,
+            Dt = dtText == "auto" ? null : args.PositiveNumber("--dt"),
+            AutomaticDt = dtText == "auto",
+            ExactOnly = args.Has("--exact-only"),
+            AllowUnsafeStep = args.Has("--allow-unstable"),
+            Progress = label => new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error),
+        });
+        var explicitWanted = !run.Options.ExactOnly;
+        if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
+        {
+            context.Error.WriteLine($"ratedeck run: {run.StepVerdict.Problem}; "
                 + "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge");
             return ExitCodes.UnsafeTimeStep;
         }
 
-        var violation = balance is null ? 0 : balance.CycleViolation ?? balance.PairViolation;
-        var exactPropagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
-        var exact = Propagate(exactPropagator, initial, times, "exact", context);
-        Trajectory? explicitResult = null;
-        FixedStepPropagator? explicitPropagator = null;
-        if (explicitWanted)
-        {
-            explicitPropagator = ExplicitPropagatorChoice.Create(loaded.Rates, chosenMethod, dt);
-            explicitResult = Propagate(explicitPropagator, initial, times, VerbSupport.MethodName(chosenMethod), context);
-        }
+        var exact = run.Exact;
+        var explicitResult = run.Explicit;
+        var difference = run.Difference;
+        var steady = run.Steady;
+        var distance = run.SteadyDistance;
+        var dt = run.ExplicitStep;
+        var stabilityLimit = run.StabilityLimit;
 
-        var difference = explicitResult is null ? null : TrajectoryComparison.Compare(exact, explicitResult);
-        var accuracyMet = difference is null ? default(bool?) : difference.MaxRelativeToTotal <= deck.Run.Accuracy;
-        var steady = SteadyState.Compute(loaded.Rates, spectrum, initial, loaded.Algebra);
-        var distance = SteadyDistance(exact.Populations[^1], steady.Populations);
+        var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
+        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"));
 
-        var outputFolder = VerbSupport.OutputFolder(args, deck);
-        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, spectrum, limits, steady, dt, chosenMethod, !args.Has("--no-plots"));
-
-        var explicitMethod = explicitWanted ? VerbSupport.MethodName(chosenMethod) : null;
+        var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
         if (args.Has("--json"))
         {
             var fields = VerbSupport.JsonFields(loaded);
-            fields["propagator"] = exactPropagator.Name;
-            fields["propagator_reason"] = exactPropagator.Reason;
+            fields["propagator"] = run.ExactPropagator.Name;
+            fields["propagator_reason"] = run.ExactPropagator.Reason;
             fields["explicit_method"] = explicitMethod;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
-            fields["dt_chosen_for_accuracy"] = accurate is not null;
-            fields["dt_error_estimate"] = accurate?.EstimatedError;
-            fields["accuracy_target"] = deck.Run.Accuracy;
-            fields["accuracy_met"] = accuracyMet;
+            fields["dt_chosen_for_accuracy"] = run.AccurateStep is not null;
+            fields["dt_error_estimate"] = run.AccurateStep?.EstimatedError;
+            fields["accuracy_target"] = loaded.Deck.Run.Accuracy;
+            fields["accuracy_met"] = run.AccuracyMet;
             fields["max_abs_difference"] = difference?.MaxAbsolute;
             fields["max_rel_difference"] = difference?.MaxRelative;
             fields["max_difference_relative_to_total"] = difference?.MaxRelativeToTotal;
             fields["steady_state"] = steady.Kind.ToString().ToLowerInvariant();
             fields["steady_state_distance"] = distance;
             fields["final_total_population"] = exact.Populations[^1].Sum();
-            fields["output_times"] = times.Length;
+            fields["output_times"] = run.Times.Length;
             fields["output_folder"] = outputFolder;
             fields["files"] = written;
             JsonSummary.Write(context.Out, fields);
@@ -101,60 +89,31 @@ public sealed class RunVerb : IVerb
         else
         {
             VerbSupport.WriteDeckLine(context.Out, loaded);
-            context.Out.WriteLine($"exact        {exactPropagator.Reason}");
-            if (explicitPropagator is not null)
+            context.Out.WriteLine($"exact        {run.ExactPropagator.Reason}");
+            if (run.ExplicitPropagator is { } explicitPropagator)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
-                context.Out.WriteLine($"             {accurate?.Reason ?? "dt as given, not chosen for accuracy"}");
+                context.Out.WriteLine($"             {run.AccurateStep?.Reason ?? "dt as given, not chosen for accuracy"}");
             }
 
-            context.Out.WriteLine($"outputs      {times.Length} times to t = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}");
+            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Number(run.Times[^1])} {loaded.Deck.TimeUnit}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
-            if (accuracyMet == false)
+            if (run.AccuracyMet == false)
             {
-                context.Out.WriteLine($"  ACCURACY: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above the accuracy target {Format.Number(deck.Run.Accuracy)} (run.accuracy); trust the exact result{(accurate is null ? ", or let dt = auto choose the step" : "")}");
+                context.Out.WriteLine($"  ACCURACY: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above the accuracy target {Format.Number(loaded.Deck.Run.Accuracy)} (run.accuracy); trust the exact result{(run.AccurateStep is null ? ", or let dt = auto choose the step" : "")}");
             }
 
             context.Out.WriteLine();
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
         }
 
-        if (accuracyMet == false && args.Has("--require-accuracy"))
+        if (run.AccuracyMet == false && args.Has("--require-accuracy"))
         {
-            context.Error.WriteLine($"ratedeck run: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above run.accuracy = {Format.Number(deck.Run.Accuracy)} (--require-accuracy)");
+            context.Error.WriteLine($"ratedeck run: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above run.accuracy = {Format.Number(loaded.Deck.Run.Accuracy)} (--require-accuracy)");
             return ExitCodes.CheckFailed;
         }
 
         return ExitCodes.Success;
-    }
-
-    /// <summary>True when the step is automatic: --dt auto, or neither --dt nor the deck's run.dt.</summary>
-    private static bool AutomaticStep(ParsedArguments args, RunSpec run) =>
-        args.Value("--dt") is { } text ? text == "auto" : run.Dt is null;
-
-    /// <summary>The hard cap of an automatic step: run.safety x the stability limit, and for Euler the positivity limit too.</summary>
-    private static double StepCap(RunSpec run, ExplicitMethod method, StiffnessReport limits) => method == ExplicitMethod.Euler
-        ? Math.Min(run.SafetyFactor * limits.EulerStable.MaxStep, limits.Positivity.MaxStep)
-        : run.SafetyFactor * limits.Rk4Stable.MaxStep;
-
-    private static Trajectory Propagate(IPropagator propagator, double[] initial, double[] times, string label, VerbContext context)
-    {
-        using var progress = new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error);
-        var trajectory = propagator.Propagate(initial, times, progress);
-        progress.Finish();
-        return trajectory;
-    }
-
-    /// <summary>max_i |P_i(t_end) - P_i(steady)| relative to the steady state's total population; null when there is no steady state.</summary>
-    private static double? SteadyDistance(double[] last, double[]? steady)
-    {
-        if (steady is null)
-        {
-            return null;
-        }
-
-        var scale = Math.Max(steady.Sum(Math.Abs), double.Epsilon);
-        return last.Zip(steady, (a, b) => Math.Abs(a - b)).Max() / scale;
     }
 
     private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)
