@@ -44,7 +44,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         new(Deck(run: "t_end = 1.0\n§t_end = 2.0"), null, "TOML syntax: The key `run.t_end` is already defined at (19,1) with `t_end = 1.0` and cannot be redefined"),
         new(Deck(extra: "§[[series]]\nx = 1"), null, "arrays of tables ([[...]]) are not part of the deck format; use a plain [table]"),
         new(Deck(top: "format = §2"), null, "this RateDeck reads deck format 1, not 2"),
-        new(Deck(top: "§titel = \"x\"\nformat = 1"), null, "unknown key `titel`. Did you mean `title`? The deck's keys are format, title and the tables [units], [temperature], [parameters], [states], [energies], [weights], [transfer], [losses], [pumping], [initial], [run], [mechanics]."),
+        new(Deck(units: "§enrgy = \"eV\""), null, "unknown key `enrgy` in [units]. Did you mean `energy`? Its keys are energy, time."),
         // Values of the wrong kind or range.
         new(Deck(units: "energy = \"§ev\""), null, "unknown energy unit \"ev\". Did you mean `eV`? Choose one of \"eV\", \"K\", \"cm-1\", \"J\", \"kJ/mol\", \"none\"."),
         new(Deck(temperature: "kT = §-0.5"), null, "`temperature.kT` must be > 0, not -0.5"),
