@@ -39,7 +39,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         new(Deck(top: "format = 1 # caf§\uFFFD"), null, "byte 0xE9 is not valid UTF-8; save the file as UTF-8 text"),
         new(Deck(top: "format = 1\ntitle = \"a§\u0001b\""), null, "control character U+0001 in the text; the file must be plain text (is it binary or damaged?)"),
         new(Deck(extra: "x = " + new string('[', 63) + "§[" + new string(']', 64)), null, "TOML syntax: arrays or inline tables nested 64 deep; a deck needs only a few levels"),
-        new(Deck(extra: "§x = " + new string('[', 63) + new string(']', 63)), null, "unknown key `x` in [run]. Its keys are t_end, outputs, spacing, t_first, explicit, dt, safety, plot_states."),
+        new(Deck(units: "energy = \"eV\"\n§x = " + new string('[', 63) + new string(']', 63)), null, "unknown key `x` in [units]. Its keys are energy, time."),
         new("format = 1\ntitle = §\n", null, "TOML syntax: Unexpected token end-of-line found while expecting a value"),
         new(Deck(run: "t_end = 1.0\n§t_end = 2.0"), null, "TOML syntax: The key `run.t_end` is already defined at (19,1) with `t_end = 1.0` and cannot be redefined"),
         new(Deck(extra: "§[[series]]\nx = 1"), null, "arrays of tables ([[...]]) are not part of the deck format; use a plain [table]"),
