@@ -66,7 +66,7 @@ public static class ExactPropagatorChoice
             if (rates.Count > DenseStorage.StateLimit)
             {
                 throw new DenseStorageException(Format(
-                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {contourEstimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
+                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {Text.Format.Number(contourEstimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
             }
         }
 
@@ -83,7 +83,7 @@ public static class ExactPropagatorChoice
 
         return new PadeExponentialPropagator(rates, la)
         {
-            Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
+            Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {Text.Format.Number(estimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)})"),
         };
     }
 
@@ -94,13 +94,13 @@ public static class ExactPropagatorChoice
             : new GeneralEigenPropagator(rates, la);
         if (general.EigenvectorCondition < ConditionThreshold)
         {
-            general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {general.EigenvectorCondition:G3} < {ConditionThreshold:G3}");
+            general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {Text.Format.Number(general.EigenvectorCondition)} < {Text.Format.Number(ConditionThreshold)}");
             return general;
         }
 
         return new PadeExponentialPropagator(rates, la)
         {
-            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (eigenvectors nearly dependent)"),
+            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {Text.Format.Number(general.EigenvectorCondition)} >= {Text.Format.Number(ConditionThreshold)} (eigenvectors nearly dependent)"),
         };
     }
 
