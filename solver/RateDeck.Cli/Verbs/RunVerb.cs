@@ -146,6 +146,11 @@ public sealed class RunVerb : IVerb
             output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Number(difference.WorstTime)}, state {loaded.States.Labels[difference.WorstState]})");
         }
 
+        if (LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit) is { } note)
+        {
+            output.WriteLine($"  note: {note}");
+        }
+
         output.WriteLine($"  total population at t_end: {Format.Number(exact.Populations[^1].Sum())}");
         output.WriteLine($"  steady state: {steady.Message}");
         if (distance is { } d)

@@ -143,7 +143,10 @@ public sealed class Spectrum
                 ? $"worst pair violation {Format.Number(balance?.PairViolation ?? double.NaN)} exceeds {Format.Number(DetailedBalance.PairTolerance)}"
                 : Format.Count(balance.OneWayCount, "one-way edge", "one-way edges");
             var decomposition = algebra.GeneralEigen(rates.Generator);
-            return new Spectrum(rates, SpectrumPath.General, $"detailed balance fails for the deck's pi ({why}): general eigen-decomposition of K", decomposition.Values, null, decomposition);
+            var against = rates.States.EquilibriumGiven == Decks.EquilibriumGiven.None && rates.Origin == BalanceOrigin.TakenAsGiven
+                ? $"the deck gives no pi (no energies or weights), and K is not symmetric for the default pi ({why})"
+                : $"detailed balance fails for the deck's pi ({why})";
+            return new Spectrum(rates, SpectrumPath.General, $"{against}: general eigen-decomposition of K", decomposition.Values, null, decomposition);
         }
 
         if (rates.IsSparse)

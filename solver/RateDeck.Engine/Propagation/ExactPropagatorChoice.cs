@@ -83,7 +83,9 @@ public static class ExactPropagatorChoice
             };
         }
 
-        var violation = Format($"no detailed balance (relative violation {detailedBalanceViolation:G3} >= {DetailedBalanceThreshold:G3})");
+        var violation = double.IsNaN(detailedBalanceViolation)
+            ? "no detailed balance (a rate one way with none back)"
+            : Format($"no detailed balance (relative violation {detailedBalanceViolation:G3} >= {DetailedBalanceThreshold:G3})");
         var general = spectrum?.General is { } eigen
             ? new GeneralEigenPropagator(rates, eigen, la)
             : new GeneralEigenPropagator(rates, la);

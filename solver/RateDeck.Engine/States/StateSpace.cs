@@ -47,4 +47,7 @@ public sealed class StateSpace
     /// periods, weights, turning points), in state order; null when the deck has no Lagrangian.
     /// </summary>
     public MechanicsResult? Mechanics { get; init; }
+
+    /// <summary>Which of energies and weights the deck gave; pi made only of defaults (all E 0, all g 1) is no claim.</summary>
+    public Decks.EquilibriumGiven EquilibriumGiven { get; init; } = Decks.EquilibriumGiven.EnergiesAndWeights;
 }

@@ -64,6 +64,7 @@ public static class StateSpaceBuilder
             logEquilibrium)
         {
             Mechanics = derived,
+            EquilibriumGiven = deck.EquilibriumGiven,
         };
     }
 
