@@ -2,9 +2,10 @@ using RateDeck.Decks;
 using RateDeck.LinearAlgebra;
 using RateDeck.Pipeline;
 using RateDeck.Tests.Decks;
-using RateDeck.Tests.Mechanics;
 using RateDeck.Tests.Support;
 using Xunit;
+using static RateDeck.Tests.Mechanics.EllipticIntegrals;
+using static RateDeck.Tests.Mechanics.MechanicsAssert;
 
 namespace RateDeck.Tests.Pipeline;
 
@@ -62,8 +63,8 @@ public sealed class DerivedDeckTests : IDisposable
         var planck = stiffer.Deck.Mechanics!.Planck;
         for (var i = 0; i < stiffer.States.Count; i++)
         {
-            var period = 4 * EllipticIntegrals.K(stiffer.States.Energies[i] / 8.0) / 2.0;
-            MechanicsAssert.Relative(period / planck, Math.Exp(stiffer.States.LogWeights[i]), 1e-10);
+            var period = 4 * K(stiffer.States.Energies[i] / 8.0) / 2.0;
+            Relative(period / planck, Math.Exp(stiffer.States.LogWeights[i]), 1e-10);
         }
     }
 
