@@ -1,6 +1,7 @@
 using RateDeck.Cli.CommandLine;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
+using RateDeck.Pipeline;
 using RateDeck.Text;
 
 namespace RateDeck.Cli.Verbs;
@@ -24,7 +25,7 @@ public sealed class CheckVerb : IVerb
     public int Execute(ParsedArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
-        var report = MatrixChecks.Check(loaded.Rates, loaded.Algebra);
+        var report = new DeckRun(loaded).Check;
         var mechanics = loaded.Mechanics is { } derived ? new MechanicsTable(loaded, derived) : null;
         var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args, loaded.Deck));
         if (args.Has("--json"))
@@ -65,7 +66,7 @@ public sealed class CheckVerb : IVerb
     private static double DetailedBalanceViolation(BalanceReport balance) =>
         balance.Origin == Rates.BalanceOrigin.TakenAsGiven && balance.CycleViolation is { } cycle ? cycle : balance.PairViolation;
 
-    private static void WriteSummary(TextWriter output, Pipeline.LoadedDeck loaded, CheckReport report, MechanicsTable? mechanics, string? mechanicsFile)
+    private static void WriteSummary(TextWriter output, LoadedDeck loaded, CheckReport report, MechanicsTable? mechanics, string? mechanicsFile)
     {
         VerbSupport.WriteDeckLine(output, loaded);
         if (report.Spectrum is { } spectrum)

@@ -1,5 +1,4 @@
 using RateDeck.Cli.CommandLine;
-using RateDeck.Decks;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
 using RateDeck.Pipeline;
@@ -30,49 +29,43 @@ public sealed class RunVerb : IVerb
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        var method = VerbSupport.Method(args) ?? default(ExplicitMethod?);
+        var method = VerbSupport.Method(args);
         var loaded = VerbSupport.Load(args);
-        var deck = loaded.Deck;
-        var chosenMethod = method ?? deck.Run.Method;
-        var balance = loaded.Rates.Origin == Rates.BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(loaded.Rates) : null;
-        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra, balance);
-        var limits = StepLimits.Analyze(spectrum, loaded.Rates, deck.Run.EndTime, null);
-        var stabilityLimit = chosenMethod == ExplicitMethod.Euler ? limits.EulerStable.MaxStep : limits.Rk4Stable.MaxStep;
-        var dt = ExplicitStep(args, deck.Run, stabilityLimit);
-        var explicitWanted = !args.Has("--exact-only");
-        if (explicitWanted && dt > stabilityLimit && !args.Has("--allow-unstable"))
+        var dtText = args.Value("--dt");
+        var run = new DeckRun(loaded, new RunOptions
         {
-            context.Error.WriteLine($"ratedeck run: dt = {Format.Number(dt)} is above the {VerbSupport.MethodName(chosenMethod)} stability limit {Format.Number(stabilityLimit)} for this deck; "
+            Method = method,
+            Dt = dtText == "auto" ? null : args.PositiveNumber("--dt"),
+            AutomaticDt = dtText == "auto",
+            ExactOnly = args.Has("--exact-only"),
+            AllowUnsafeStep = args.Has("--allow-unstable"),
+            Progress = label => new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error),
+        });
+        var explicitWanted = !run.Options.ExactOnly;
+        if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
+        {
+            context.Error.WriteLine($"ratedeck run: {run.StepVerdict.Problem}; "
                 + "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge");
             return ExitCodes.UnsafeTimeStep;
         }
 
-        var initial = RunSetup.InitialPopulations(deck, loaded.States);
-        var times = RunSetup.OutputTimes(deck.Run);
-        var violation = balance is null ? 0 : balance.CycleViolation ?? balance.PairViolation;
-        var exactPropagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
-        var exact = Propagate(exactPropagator, initial, times, "exact", context);
-        Trajectory? explicitResult = null;
-        FixedStepPropagator? explicitPropagator = null;
-        if (explicitWanted)
-        {
-            explicitPropagator = ExplicitPropagatorChoice.Create(loaded.Rates, chosenMethod, dt);
-            explicitResult = Propagate(explicitPropagator, initial, times, VerbSupport.MethodName(chosenMethod), context);
-        }
+        var exact = run.Exact;
+        var explicitResult = run.Explicit;
+        var difference = run.Difference;
+        var steady = run.Steady;
+        var distance = run.SteadyDistance;
+        var dt = run.ExplicitStep;
+        var stabilityLimit = run.StabilityLimit;
 
-        var difference = explicitResult is null ? null : TrajectoryComparison.Compare(exact, explicitResult);
-        var steady = SteadyState.Compute(loaded.Rates, spectrum, initial, loaded.Algebra);
-        var distance = SteadyDistance(exact.Populations[^1], steady.Populations);
+        var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
+        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"));
 
-        var outputFolder = VerbSupport.OutputFolder(args, deck);
-        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, spectrum, limits, steady, dt, chosenMethod, !args.Has("--no-plots"));
-
-        var explicitMethod = explicitWanted ? VerbSupport.MethodName(chosenMethod) : null;
+        var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
         if (args.Has("--json"))
         {
             var fields = VerbSupport.JsonFields(loaded);
-            fields["propagator"] = exactPropagator.Name;
-            fields["propagator_reason"] = exactPropagator.Reason;
+            fields["propagator"] = run.ExactPropagator.Name;
+            fields["propagator_reason"] = run.ExactPropagator.Reason;
             fields["explicit_method"] = explicitMethod;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
@@ -82,7 +75,7 @@ public sealed class RunVerb : IVerb
             fields["steady_state"] = steady.Kind.ToString().ToLowerInvariant();
             fields["steady_state_distance"] = distance;
             fields["final_total_population"] = exact.Populations[^1].Sum();
-            fields["output_times"] = times.Length;
+            fields["output_times"] = run.Times.Length;
             fields["output_folder"] = outputFolder;
             fields["files"] = written;
             JsonSummary.Write(context.Out, fields);
@@ -91,51 +84,19 @@ public sealed class RunVerb : IVerb
         else
         {
             VerbSupport.WriteDeckLine(context.Out, loaded);
-            context.Out.WriteLine($"exact        {exactPropagator.Reason}");
-            if (explicitPropagator is not null)
+            context.Out.WriteLine($"exact        {run.ExactPropagator.Reason}");
+            if (run.ExplicitPropagator is { } explicitPropagator)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
             }
 
-            context.Out.WriteLine($"outputs      {times.Length} times to t = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}");
+            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Number(run.Times[^1])} {loaded.Deck.TimeUnit}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
             context.Out.WriteLine();
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
         }
 
         return ExitCodes.Success;
-    }
-
-    /// <summary>The explicit step: --dt, else the deck's run.dt, else (or for "auto") safety x the stability limit.</summary>
-    private static double ExplicitStep(ParsedArguments args, RunSpec run, double stabilityLimit)
-    {
-        var text = args.Value("--dt");
-        if (text == "auto" || (text is null && run.Dt is null))
-        {
-            return run.SafetyFactor * stabilityLimit;
-        }
-
-        return args.PositiveNumber("--dt") ?? run.Dt!.Value;
-    }
-
-    private static Trajectory Propagate(IPropagator propagator, double[] initial, double[] times, string label, VerbContext context)
-    {
-        using var progress = new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error);
-        var trajectory = propagator.Propagate(initial, times, progress);
-        progress.Finish();
-        return trajectory;
-    }
-
-    /// <summary>max_i |P_i(t_end) - P_i(steady)| relative to the steady state's total population; null when there is no steady state.</summary>
-    private static double? SteadyDistance(double[] last, double[]? steady)
-    {
-        if (steady is null)
-        {
-            return null;
-        }
-
-        var scale = Math.Max(steady.Sum(Math.Abs), double.Epsilon);
-        return last.Zip(steady, (a, b) => Math.Abs(a - b)).Max() / scale;
     }
 
     private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)

@@ -27,21 +27,28 @@ public static class MatrixChecks
     /// </summary>
     public const double EquilibriumToleranceFloor = 1e-9;
 
-    /// <summary>Runs every check; computes the spectrum once with <paramref name="algebra"/>.</summary>
+    /// <summary>Runs every check; measures the balance and computes the spectrum once with <paramref name="algebra"/>.</summary>
     public static CheckReport Check(RateMatrix rates, ILinearAlgebra algebra)
     {
         var balance = DetailedBalance.Analyze(rates);
-        var nonFinite = CountNonFinite(rates);
-        var spectrum = nonFinite == 0 ? Spectrum.Compute(rates, algebra, rates.Origin == BalanceOrigin.TakenAsGiven ? balance : null) : null;
-        return Check(rates, spectrum, balance, nonFinite);
+        return Check(rates, balance, HasNonFiniteEntries(rates) ? null : Spectrum.Compute(rates, algebra, balance));
     }
 
-    /// <summary>Runs every check against a spectrum computed before (it must belong to <paramref name="rates"/>).</summary>
-    public static CheckReport Check(RateMatrix rates, Spectrum spectrum) =>
-        Check(rates, spectrum, DetailedBalance.Analyze(rates), CountNonFinite(rates));
-
-    private static CheckReport Check(RateMatrix rates, Spectrum? spectrum, BalanceReport balance, int nonFinite)
+    /// <summary>
+    /// Runs every check with the balance and the spectrum of <paramref name="rates"/> measured
+    /// before; <paramref name="spectrum"/> is null exactly when K has non-finite entries (no
+    /// eigen-solver can use it; see <see cref="HasNonFiniteEntries"/>).
+    /// </summary>
+    public static CheckReport Check(RateMatrix rates, BalanceReport balance, Spectrum? spectrum)
     {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(balance);
+        var nonFinite = CountNonFinite(rates);
+        if ((spectrum is null) != (nonFinite > 0))
+        {
+            throw new ArgumentException("a spectrum is required exactly when every entry of K is finite", nameof(spectrum));
+        }
+
         var labels = rates.States.Labels;
         var n = rates.Count;
         var checks = new List<CheckOutcome>
@@ -90,6 +97,9 @@ public static class MatrixChecks
         return new CheckReport(nonFinite, conservation, worstColumn is null ? null : labels[worstColumn.Value], negativeCount, worstNegative,
             balance, classes, spectrum, expectedNull, agreement, equilibriumTolerance, checks);
     }
+
+    /// <summary>True when an entry of K, the losses or the pumping is NaN or infinite.</summary>
+    public static bool HasNonFiniteEntries(RateMatrix rates) => CountNonFinite(rates) > 0;
 
     private static int CountNonFinite(RateMatrix rates) =>
         (rates.Sparse?.Values ?? rates.Generator.Values).Count(v => !double.IsFinite(v)) + rates.Loss.Count(v => !double.IsFinite(v)) + rates.Pumping.Count(v => !double.IsFinite(v));

@@ -177,7 +177,7 @@ public sealed class TrustworthyAnswersTests
 
         Assert.True(code == ExitCodes.Success, error);
         Assert.DoesNotContain("NaN", output, StringComparison.Ordinal);
-        Assert.Contains("no detailed balance (a rate one way with none back)", output, StringComparison.Ordinal);
+        Assert.Contains("no detailed balance: 3 one-way edges (rate one way, none back)", output, StringComparison.Ordinal);
     }
 
     [Fact]
