@@ -45,7 +45,7 @@ internal static class TrialBench
     private static void Propagate(LoadedDeck loaded, out string reason)
     {
         var initial = RunSetup.InitialPopulations(loaded.Deck, loaded.States);
-        var propagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, double.NaN, initial);
+        var propagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, initial: initial);
         var trajectory = propagator.Propagate(initial, RunSetup.OutputTimes(loaded.Deck.Run));
         reason = propagator.Reason;
         if (!trajectory.Populations[^1].All(double.IsFinite))
