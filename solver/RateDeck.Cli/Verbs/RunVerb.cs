@@ -23,6 +23,8 @@ public sealed class RunVerb : IVerb
         new("--method", "euler|rk4", "explicit method (default: the deck's run.explicit)"),
         new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
         new("--exact-only", null, "skip the explicit method"),
+        new("--exact", "auto|implicit|extended", "exact path: auto (default: chosen from the spectrum, reason printed), the implicit integrator, or the double-double eigen path"),
+        new("--implicit", null, "also run the implicit integrator beside explicit and exact, and compare it with exact"),
         new("--allow-unstable", null, "run an explicit step above the stability limit anyway, to see it fail"),
         new("--no-plots", null, "write no PNG plots"),
     ]);
@@ -49,8 +51,23 @@ public sealed class RunVerb : IVerb
 
         var initial = RunSetup.InitialPopulations(deck, loaded.States);
         var times = RunSetup.OutputTimes(deck.Run);
+        var explicitSteps = Math.Ceiling(deck.Run.EndTime / dt);
+        string? explicitDeclined = null;
+        if (explicitWanted && explicitSteps > StepLimits.ExplicitStepBudget)
+        {
+            var budget = $"{VerbSupport.MethodName(chosenMethod)} at dt = {Format.Number(dt)} needs {Format.Count(explicitSteps)} steps to t_end = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}, above the budget of {Format.Number(StepLimits.ExplicitStepBudget)} explicit steps";
+            if (args.Has("--dt") || args.Has("--method"))
+            {
+                context.Error.WriteLine($"ratedeck run: {budget}; drop --dt/--method to let run decline the explicit method, or use --exact-only");
+                return ExitCodes.UnsafeTimeStep;
+            }
+
+            explicitDeclined = $"declined: {budget}; the exact path below does not step";
+            explicitWanted = false;
+        }
+
         var violation = balance is null ? 0 : balance.CycleViolation ?? balance.PairViolation;
-        var exactPropagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
+        var exactPropagator = ExactPath(args, loaded, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
         var exact = Propagate(exactPropagator, initial, times, "exact", context);
         Trajectory? explicitResult = null;
         FixedStepPropagator? explicitPropagator = null;
@@ -58,6 +75,15 @@ public sealed class RunVerb : IVerb
         {
             explicitPropagator = ExplicitPropagatorChoice.Create(loaded.Rates, chosenMethod, dt);
             explicitResult = Propagate(explicitPropagator, initial, times, VerbSupport.MethodName(chosenMethod), context);
+        }
+
+        ImplicitSdirkPropagator? implicitPropagator = null;
+        TrajectoryDifference? implicitDifference = null;
+        if (args.Has("--implicit"))
+        {
+            implicitPropagator = exactPropagator as ImplicitSdirkPropagator ?? new ImplicitSdirkPropagator(loaded.Rates);
+            var implicitResult = ReferenceEquals(implicitPropagator, exactPropagator) ? exact : Propagate(implicitPropagator, initial, times, "implicit", context);
+            implicitDifference = TrajectoryComparison.Compare(exact, implicitResult);
         }
 
         var difference = explicitResult is null ? null : TrajectoryComparison.Compare(exact, explicitResult);
@@ -74,6 +100,10 @@ public sealed class RunVerb : IVerb
             fields["propagator"] = exactPropagator.Name;
             fields["propagator_reason"] = exactPropagator.Reason;
             fields["explicit_method"] = explicitMethod;
+            fields["explicit_declined"] = explicitDeclined;
+            fields["implicit_steps"] = implicitPropagator?.Statistics;
+            fields["implicit_vs_exact_max_abs_difference"] = implicitDifference?.MaxAbsolute;
+            fields["implicit_vs_exact_max_rel_difference"] = implicitDifference?.MaxRelative;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
             fields["max_abs_difference"] = difference?.MaxAbsolute;
@@ -92,18 +122,62 @@ public sealed class RunVerb : IVerb
         {
             VerbSupport.WriteDeckLine(context.Out, loaded);
             context.Out.WriteLine($"exact        {exactPropagator.Reason}");
+            if (exactPropagator is ImplicitSdirkPropagator steps)
+            {
+                context.Out.WriteLine($"             {steps.Statistics}");
+            }
+
             if (explicitPropagator is not null)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
             }
+            else if (explicitDeclined is not null)
+            {
+                context.Out.WriteLine($"explicit     {explicitDeclined}");
+            }
+
+            if (implicitPropagator is not null && !ReferenceEquals(implicitPropagator, exactPropagator))
+            {
+                context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
+            }
 
             context.Out.WriteLine($"outputs      {times.Length} times to t = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
+            if (implicitDifference is { } versus)
+            {
+                context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Number(versus.WorstTime)}, state {loaded.States.Labels[versus.WorstState]})");
+            }
+
             context.Out.WriteLine();
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
         }
 
         return ExitCodes.Success;
+    }
+
+    /// <summary>The exact propagator: chosen from the spectrum and the horizon, or the path asked for with --exact.</summary>
+    private static IPropagator ExactPath(ParsedArguments args, LoadedDeck loaded, double violation, double[] initial, Spectrum spectrum)
+    {
+        var path = args.Value("--exact") switch
+        {
+            null or "auto" => (ExactPathRequest?)null,
+            "implicit" => ExactPathRequest.Implicit,
+            "extended" => ExactPathRequest.Extended,
+            var other => throw new UsageException($"--exact takes auto, implicit or extended, not '{other}'"),
+        };
+        if (path is not { } requested)
+        {
+            return ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, violation, initial, spectrum, loaded.Deck.Run.EndTime);
+        }
+
+        try
+        {
+            return ExactPropagatorChoice.Requested(loaded.Rates, spectrum, requested);
+        }
+        catch (ArgumentException e)
+        {
+            throw new UsageException($"--exact {args.Value("--exact")}: {e.Message}");
+        }
     }
 
     /// <summary>The explicit step: --dt, else the deck's run.dt, else (or for "auto") safety x the stability limit.</summary>

@@ -12,10 +12,26 @@ namespace RateDeck.Propagation;
 /// eigen-decomposition when detailed balance holds and its rounding is harmless for the start
 /// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
 /// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
-/// exponential.
+/// exponential. Before any of these, the spectrum's resolution decides (docs/stiff-decks.md): when
+/// the double spectrum loses slow modes (more zero eigenvalues than closed classes without loss,
+/// or a slowest rate within 1e10 of the solver's absolute accuracy N eps rho) or cannot resolve the
+/// run's horizon (t_end N eps rho above <see cref="HorizonTolerance"/>), the eigen paths are not
+/// trusted: the double-double eigen path is taken when the spectrum has it
+/// (<see cref="ExtendedEigenPropagator"/>), else the implicit integrator
+/// (<see cref="ImplicitSdirkPropagator"/>).
 /// </summary>
 public static class ExactPropagatorChoice
 {
+    /// <summary>
+    /// An eigen path in double serves a run to t_end while t_end N eps rho is at most this: every
+    /// eigenvalue carries an absolute error up to N eps rho, which shifts exp(lambda t) by up to
+    /// t N eps rho relative to the total over the run.
+    /// </summary>
+    public const double HorizonTolerance = 1e-8;
+
+    /// <summary>Largest N the implicit integrator takes (it factors N x N matrices: 2/3 N^3 operations per step size).</summary>
+    public const int ImplicitStateLimit = 2000;
+
     /// <summary>Detailed balance counts as holding below this relative violation.</summary>
     public const double DetailedBalanceThreshold = 1e-10;
 
@@ -37,11 +53,22 @@ public static class ExactPropagatorChoice
     /// Pass <paramref name="spectrum"/> (the diagnostics' <see cref="Spectrum"/> of the same matrix)
     /// to reuse its decomposition instead of computing a second one: its symmetric decomposition
     /// on the symmetric path, its general one on the general path.
+    /// <para>
+    /// Pass <paramref name="horizon"/> (t_end) to hold the eigen paths to <see cref="HorizonTolerance"/>
+    /// over the run; without it only the spectrum's own resolution is judged.
+    /// </para>
     /// </summary>
-    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null, Spectrum? spectrum = null)
+    /// <exception cref="DenseStorageException">No path fits: the spectrum is unresolved and N exceeds <see cref="ImplicitStateLimit"/>.</exception>
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null, Spectrum? spectrum = null, double? horizon = null)
     {
         ArgumentNullException.ThrowIfNull(rates);
         ArgumentNullException.ThrowIfNull(la);
+        spectrum ??= Spectrum.Compute(rates, la, rates.Origin == BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(rates) : null);
+        if (StiffChoice(rates, spectrum, horizon) is { } stiff)
+        {
+            return stiff;
+        }
+
         var balance = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
             ? "detailed balance holds by construction (one direction completed from the other)"
             : detailedBalanceViolation < DetailedBalanceThreshold
@@ -99,5 +126,80 @@ public static class ExactPropagatorChoice
         };
     }
 
+    /// <summary>
+    /// The path a user asked for instead of the automatic choice: the implicit integrator (any deck
+    /// with non-negative rates), or the double-double eigen path (a deck completed by detailed
+    /// balance with at most <see cref="Spectrum.ExtendedPrecisionStateLimit"/> states).
+    /// </summary>
+    /// <exception cref="ArgumentException">The deck does not allow the path; the message says why.</exception>
+    public static IPropagator Requested(RateMatrix rates, Spectrum spectrum, ExactPathRequest path)
+    {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(spectrum);
+        if (path == ExactPathRequest.Implicit)
+        {
+            var implicitPropagator = new ImplicitSdirkPropagator(rates);
+            implicitPropagator.Reason += " (asked for)";
+            return implicitPropagator;
+        }
+
+        if (rates.Origin != BalanceOrigin.CompletedByDetailedBalance || rates.Count > Spectrum.ExtendedPrecisionStateLimit)
+        {
+            throw new ArgumentException(Format($"the double-double eigen path needs a deck completed by detailed balance (one_way or kernel) with at most {Spectrum.ExtendedPrecisionStateLimit} states"), nameof(path));
+        }
+
+        var decomposition = spectrum.Extended ?? ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
+        var zero = Spectrum.ZeroToleranceFactor * rates.Count * 2 * DoubleDouble.Epsilon * spectrum.SpectralRadius;
+        return new ExtendedEigenPropagator(rates, decomposition, zero) { Reason = "symmetric eigen-decomposition in double-double (asked for)" };
+    }
+
+    /// <summary>The propagator for a spectrum that double precision does not resolve (over the horizon), or null when it does.</summary>
+    private static IPropagator? StiffChoice(RateMatrix rates, Spectrum spectrum, double? horizon)
+    {
+        if (spectrum.Extended is { } extended)
+        {
+            return new ExtendedEigenPropagator(rates, extended, spectrum.ZeroTolerance)
+            {
+                Reason = $"symmetric eigen-decomposition in double-double: {spectrum.PathReason}",
+            };
+        }
+
+        string why;
+        if (spectrum.Unresolved is { } unresolved)
+        {
+            why = $"the eigen paths are not trusted: {unresolved}";
+        }
+        else if (horizon is { } t && t * spectrum.AbsoluteAccuracy > HorizonTolerance)
+        {
+            why = Format($"the eigen paths are not trusted to t_end = {t:G6}: their eigenvalues carry absolute errors up to N eps rho = {spectrum.AbsoluteAccuracy:G3}, and t_end N eps rho = {t * spectrum.AbsoluteAccuracy:G3} > {HorizonTolerance:G3}");
+        }
+        else
+        {
+            return null;
+        }
+
+        if (rates.Count > ImplicitStateLimit)
+        {
+            throw new DenseStorageException(Format($"no exact path fits: {why}, and the implicit integrator factors N x N matrices, refused above {ImplicitStateLimit} states"));
+        }
+
+        var extendedLimit = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
+            ? Format($"the double-double eigen path serves decks completed by detailed balance up to {Spectrum.ExtendedPrecisionStateLimit} states")
+            : "the double-double eigen path needs a matrix completed by detailed balance";
+        var implicitPropagator = new ImplicitSdirkPropagator(rates);
+        implicitPropagator.Reason = $"{implicitPropagator.Reason}: {why}; {extendedLimit}";
+        return implicitPropagator;
+    }
+
     private static string Format(FormattableString text) => text.ToString(CultureInfo.InvariantCulture);
+}
+
+/// <summary>An exact path asked for by the user instead of the automatic choice.</summary>
+public enum ExactPathRequest
+{
+    /// <summary>The implicit integrator (<see cref="ImplicitSdirkPropagator"/>).</summary>
+    Implicit,
+
+    /// <summary>The double-double eigen path (<see cref="ExtendedEigenPropagator"/>).</summary>
+    Extended,
 }
