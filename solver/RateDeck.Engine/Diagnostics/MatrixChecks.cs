@@ -215,9 +215,9 @@ public static class MatrixChecks
         }
 
         var pi = LogSpace.NormalizedOn(rates.States.LogEquilibrium, closedClass.States);
-        if (!rates.IsSparse)
+        if (!rates.IsSparse && TryStationaryLaw(rates, closedClass) is { } law)
         {
-            return pi.Zip(StationaryLaw.OfClass(rates, closedClass.States), (p, v) => Math.Abs(p - v)).Max();
+            return pi.Zip(law, (p, v) => Math.Abs(p - v)).Max();
         }
 
         var nullVector = spectrum.NullVectorOn(closedClass.States);
@@ -227,6 +227,19 @@ public static class MatrixChecks
         }
 
         return pi.Zip(nullVector, (p, v) => Math.Abs(p - v)).Max();
+    }
+
+    /// <summary>The class's law by elimination, or null when a completed rate that underflowed leaves a state with no rate to the states kept (the null vector then serves).</summary>
+    private static double[]? TryStationaryLaw(RateMatrix rates, ClosedClass closedClass)
+    {
+        try
+        {
+            return StationaryLaw.OfClass(rates, closedClass.States);
+        }
+        catch (ArgumentException)
+        {
+            return null;
+        }
     }
 
     private static CheckOutcome EquilibriumOutcome(IReadOnlyList<ClassAgreement> agreement, double tolerance)

@@ -148,6 +148,14 @@ public sealed class Spectrum
     public bool IsResolved => Unresolved is null;
 
     /// <summary>
+    /// True when the zero count differs from <see cref="StructuralNullDimension"/>: modes were lost
+    /// in rounding (or a null mode was not found), so no eigen path built on this spectrum is
+    /// trusted. A spectrum may be unresolved only in the relative accuracy of its slowest rate
+    /// and still serve propagation over a short enough horizon (<see cref="Propagation.ExactPropagatorChoice.HorizonTolerance"/>).
+    /// </summary>
+    public bool LostModes => _nullDimension != StructuralNullDimension;
+
+    /// <summary>
     /// The double-double decomposition of S when the double one could not resolve the slow modes
     /// (see <see cref="Compute(RateMatrix, ILinearAlgebra, BalanceReport?)"/>); else null.
     /// </summary>

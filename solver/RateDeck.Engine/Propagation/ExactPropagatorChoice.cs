@@ -13,19 +13,21 @@ namespace RateDeck.Propagation;
 /// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
 /// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
 /// exponential. Before any of these, the spectrum's resolution decides (docs/stiff-decks.md): when
-/// the double spectrum loses slow modes (more zero eigenvalues than closed classes without loss,
-/// or a slowest rate within 1e10 of the solver's absolute accuracy N eps rho) or cannot resolve the
-/// run's horizon (t_end N eps rho above <see cref="HorizonTolerance"/>), the eigen paths are not
-/// trusted: the double-double eigen path is taken when the spectrum has it
-/// (<see cref="ExtendedEigenPropagator"/>), else the implicit integrator
-/// (<see cref="ImplicitSdirkPropagator"/>).
+/// the spectrum had to be recomputed in double-double (its slow modes were not resolved in
+/// double), the double-double eigen path is taken (<see cref="ExtendedEigenPropagator"/>); when the
+/// double spectrum lost slow modes (more zero eigenvalues than closed classes without loss) that
+/// can move over the run (t_end N eps rho above <see cref="HorizonTolerance"/>, or no t_end given), or
+/// cannot resolve the run's horizon (t_end eps rho above <see cref="HorizonTolerance"/>), the
+/// eigen paths are not trusted and the implicit integrator is taken (<see cref="ImplicitSdirkPropagator"/>).
 /// </summary>
 public static class ExactPropagatorChoice
 {
     /// <summary>
-    /// An eigen path in double serves a run to t_end while t_end N eps rho is at most this: every
-    /// eigenvalue carries an absolute error up to N eps rho, which shifts exp(lambda t) by up to
-    /// t N eps rho relative to the total over the run.
+    /// A dense eigen path in double serves a run to t_end while t_end eps rho is at most this:
+    /// every eigenvalue carries an absolute error of at least about eps rho (a backward-stable
+    /// solver's, Golub and Van Loan as in <see cref="Spectrum"/>), which shifts exp(lambda t) by
+    /// about t eps rho relative to the total over the run. The sparse contour path forms no
+    /// eigenvalues and is not held to it.
     /// </summary>
     public const double HorizonTolerance = 1e-8;
 
@@ -165,13 +167,14 @@ public static class ExactPropagatorChoice
         }
 
         string why;
-        if (spectrum.Unresolved is { } unresolved)
+        // Modes lost below the solver's accuracy N eps rho are treated as null modes: harmless while they cannot move over the run.
+        if (spectrum.LostModes && (horizon is not { } end || end * spectrum.AbsoluteAccuracy > HorizonTolerance))
         {
-            why = $"the eigen paths are not trusted: {unresolved}";
+            why = $"the eigen paths are not trusted: {spectrum.Unresolved}";
         }
-        else if (horizon is { } t && t * spectrum.AbsoluteAccuracy > HorizonTolerance)
+        else if (!rates.IsSparse && horizon is { } t && t * Spectrum.MachineEpsilon * spectrum.SpectralRadius > HorizonTolerance)
         {
-            why = Format($"the eigen paths are not trusted to t_end = {t:G6}: their eigenvalues carry absolute errors up to N eps rho = {spectrum.AbsoluteAccuracy:G3}, and t_end N eps rho = {t * spectrum.AbsoluteAccuracy:G3} > {HorizonTolerance:G3}");
+            why = Format($"the eigen paths are not trusted to t_end = {t:G6}: their eigenvalues carry absolute errors of eps rho = {Spectrum.MachineEpsilon * spectrum.SpectralRadius:G3} or more, and t_end eps rho = {t * Spectrum.MachineEpsilon * spectrum.SpectralRadius:G3} > {HorizonTolerance:G3}");
         }
         else
         {
