@@ -9,7 +9,7 @@ namespace RateDeck.Cli;
 /// <summary>Dispatches the first argument to a verb and maps every failure to a plain message and an exit code.</summary>
 public static class Commands
 {
-    private static readonly IVerb[] _verbs = [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb()];
+    private static readonly IVerb[] _verbs = [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb()];
 
     /// <summary>Runs the verb named by the first argument.</summary>
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
@@ -91,7 +91,7 @@ public static class Commands
 
             writer.WriteLine();
             writer.WriteLine("'ratedeck help VERB' lists a verb's options; exit codes: 0 ok, 1 internal error, 2 bad input,");
-            writer.WriteLine("3 unsafe time step, 4 check failed, 5 output not written (docs/cli.md).");
+            writer.WriteLine("3 unsafe time step, 4 check failed, 5 output not written, 6 fit not converged (docs/cli.md).");
             return exitCode;
         }
 

@@ -22,4 +22,7 @@ public static class ExitCodes
 
     /// <summary>An output file or folder could not be written.</summary>
     public const int OutputFailed = 5;
+
+    /// <summary><c>ratedeck fit</c> stopped without converging (iteration limit, or no step reduces the RSS); the report is still printed.</summary>
+    public const int NotConverged = 6;
 }

@@ -1,6 +1,7 @@
 using RateDeck.Cli.CommandLine;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
+using RateDeck.Pipeline;
 using RateDeck.Text;
 
 namespace RateDeck.Cli.Verbs;
@@ -24,7 +25,7 @@ public sealed class CheckVerb : IVerb
     public int Execute(ParsedArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
-        var report = MatrixChecks.Check(loaded.Rates, loaded.Algebra);
+        var report = new DeckRun(loaded).Check;
         var mechanics = loaded.Mechanics is { } derived ? new MechanicsTable(loaded, derived) : null;
         var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args, loaded.Deck));
         if (args.Has("--json"))
@@ -44,6 +45,10 @@ public sealed class CheckVerb : IVerb
             fields["zero_tolerance"] = report.Spectrum?.ZeroTolerance;
             fields["spectrum_path"] = report.Spectrum?.PathReason;
             fields["equilibrium_agreement"] = report.EquilibriumAgreement.Select(a => a.MaxDifference).ToArray();
+            fields["equilibrium_compared_with"] = MatrixChecks.ClaimedEquilibrium(loaded.Rates);
+            fields["stationary_laws"] = report.EquilibriumAgreement.Select(a => a.StationaryLaw).ToArray();
+            fields["large_completed_rates"] = LargeCompletedRates.Find(loaded.Rates, loaded.Deck.Coupling).Count;
+            fields["large_completed_rates_note"] = LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit);
             fields["checks"] = report.Checks.Select(c => new { name = c.Name, passed = c.Passed, detail = c.Detail }).ToArray();
             fields["mechanics"] = mechanics?.Json(mechanicsFile!);
             JsonSummary.Write(context.Out, fields);
@@ -61,7 +66,7 @@ public sealed class CheckVerb : IVerb
     private static double DetailedBalanceViolation(BalanceReport balance) =>
         balance.Origin == Rates.BalanceOrigin.TakenAsGiven && balance.CycleViolation is { } cycle ? cycle : balance.PairViolation;
 
-    private static void WriteSummary(TextWriter output, Pipeline.LoadedDeck loaded, CheckReport report, MechanicsTable? mechanics, string? mechanicsFile)
+    private static void WriteSummary(TextWriter output, LoadedDeck loaded, CheckReport report, MechanicsTable? mechanics, string? mechanicsFile)
     {
         VerbSupport.WriteDeckLine(output, loaded);
         if (report.Spectrum is { } spectrum)
@@ -75,6 +80,11 @@ public sealed class CheckVerb : IVerb
             output.WriteLine($"  {(check.Passed ? "ok  " : "FAIL")}  {check.Name,-22} {check.Detail}");
         }
 
+        if (LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit) is { } note)
+        {
+            output.WriteLine($"  NOTE  {"completed rates",-22} {note}");
+        }
+
         output.WriteLine();
         var classes = report.Classes;
         output.WriteLine($"closed classes: {classes.Closed.Count}");
@@ -83,6 +93,10 @@ public sealed class CheckVerb : IVerb
             var closed = classes.Closed[k];
             var loss = closed.HasLoss ? ", with loss" : "";
             output.WriteLine($"  class {k + 1} ({closed.Labels.Length} states{loss}): {Format.Labels(closed.Labels)}");
+            if (MatrixChecks.ClaimedEquilibrium(loaded.Rates) is null && k < report.EquilibriumAgreement.Count && report.EquilibriumAgreement[k].StationaryLaw is { } law)
+            {
+                output.WriteLine($"    stationary law (null vector): {Format.Labels([.. closed.Labels.Zip(law, (label, p) => $"{label} {Format.Number(p)}")])}");
+            }
         }
 
         if (classes.TransientLabels.Length > 0)

@@ -1,5 +1,4 @@
 using RateDeck.Cli.CommandLine;
-using RateDeck.Decks;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
 using RateDeck.Pipeline;
@@ -32,78 +31,63 @@ public sealed class RunVerb : IVerb
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        var method = VerbSupport.Method(args) ?? default(ExplicitMethod?);
+        var method = VerbSupport.Method(args);
         var loaded = VerbSupport.Load(args);
-        var deck = loaded.Deck;
-        var chosenMethod = method ?? deck.Run.Method;
-        var balance = loaded.Rates.Origin == Rates.BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(loaded.Rates) : null;
-        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra, balance);
-        var limits = StepLimits.Analyze(spectrum, loaded.Rates, deck.Run.EndTime, null);
-        var stabilityLimit = chosenMethod == ExplicitMethod.Euler ? limits.EulerStable.MaxStep : limits.Rk4Stable.MaxStep;
-        var dt = ExplicitStep(args, deck.Run, stabilityLimit);
-        var explicitWanted = !args.Has("--exact-only");
-        if (explicitWanted && dt > stabilityLimit && !args.Has("--allow-unstable"))
+        var dtText = args.Value("--dt");
+        var run = new DeckRun(loaded, new RunOptions
         {
-            context.Error.WriteLine($"ratedeck run: dt = {Format.Number(dt)} is above the {VerbSupport.MethodName(chosenMethod)} stability limit {Format.Number(stabilityLimit)} for this deck; "
-                + "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge");
+            Method = method,
+            Dt = dtText == "auto" ? null : args.PositiveNumber("--dt"),
+            AutomaticDt = dtText == "auto",
+            ExactOnly = args.Has("--exact-only"),
+            AllowUnsafeStep = args.Has("--allow-unstable"),
+            ExactPath = ExactPath(args),
+            WithImplicit = args.Has("--implicit"),
+            Progress = label => new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error),
+        });
+        var explicitWanted = !run.Options.ExactOnly && run.ExplicitDeclined is null;
+        if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
+        {
+            var advice = run.ExplicitStep <= run.StabilityLimit
+                ? "use --exact-only, or drop --dt and --method to let run decline the explicit method"
+                : "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge";
+            context.Error.WriteLine($"ratedeck run: {run.StepVerdict.Problem}; {advice}");
             return ExitCodes.UnsafeTimeStep;
         }
 
-        var initial = RunSetup.InitialPopulations(deck, loaded.States);
-        var times = RunSetup.OutputTimes(deck.Run);
-        var explicitSteps = Math.Ceiling(deck.Run.EndTime / dt);
-        string? explicitDeclined = null;
-        if (explicitWanted && explicitSteps > StepLimits.ExplicitStepBudget)
+        IPropagator exactPropagator;
+        try
         {
-            var budget = $"{VerbSupport.MethodName(chosenMethod)} at dt = {Format.Number(dt)} needs {Format.Count(explicitSteps)} steps to t_end = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}, above the budget of {Format.Number(StepLimits.ExplicitStepBudget)} explicit steps";
-            if (args.Has("--dt") || args.Has("--method"))
-            {
-                context.Error.WriteLine($"ratedeck run: {budget}; drop --dt/--method to let run decline the explicit method, or use --exact-only");
-                return ExitCodes.UnsafeTimeStep;
-            }
-
-            explicitDeclined = $"declined: {budget}; the exact path below does not step";
-            explicitWanted = false;
+            exactPropagator = run.ExactPropagator;
+        }
+        catch (ArgumentException e) when (run.Options.ExactPath is not null)
+        {
+            throw new UsageException($"--exact {args.Value("--exact")}: {e.Message}");
         }
 
-        var violation = balance is null ? 0 : balance.CycleViolation ?? balance.PairViolation;
-        var exactPropagator = ExactPath(args, loaded, balance is { OneWayCount: > 0 } ? double.NaN : violation, initial, spectrum);
-        var exact = Propagate(exactPropagator, initial, times, "exact", context);
-        Trajectory? explicitResult = null;
-        FixedStepPropagator? explicitPropagator = null;
-        if (explicitWanted)
-        {
-            explicitPropagator = ExplicitPropagatorChoice.Create(loaded.Rates, chosenMethod, dt);
-            explicitResult = Propagate(explicitPropagator, initial, times, VerbSupport.MethodName(chosenMethod), context);
-        }
+        var exact = run.Exact;
+        _ = run.Implicit;
+        var explicitResult = run.Explicit;
+        var difference = run.Difference;
+        var steady = run.Steady;
+        var distance = run.SteadyDistance;
+        var dt = run.ExplicitStep;
+        var stabilityLimit = run.StabilityLimit;
 
-        ImplicitSdirkPropagator? implicitPropagator = null;
-        TrajectoryDifference? implicitDifference = null;
-        if (args.Has("--implicit"))
-        {
-            implicitPropagator = exactPropagator as ImplicitSdirkPropagator ?? new ImplicitSdirkPropagator(loaded.Rates);
-            var implicitResult = ReferenceEquals(implicitPropagator, exactPropagator) ? exact : Propagate(implicitPropagator, initial, times, "implicit", context);
-            implicitDifference = TrajectoryComparison.Compare(exact, implicitResult);
-        }
+        var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
+        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"));
 
-        var difference = explicitResult is null ? null : TrajectoryComparison.Compare(exact, explicitResult);
-        var steady = SteadyState.Compute(loaded.Rates, spectrum, initial, loaded.Algebra);
-        var distance = SteadyDistance(exact.Populations[^1], steady.Populations);
-
-        var outputFolder = VerbSupport.OutputFolder(args, deck);
-        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, spectrum, limits, steady, dt, chosenMethod, !args.Has("--no-plots"));
-
-        var explicitMethod = explicitWanted ? VerbSupport.MethodName(chosenMethod) : null;
+        var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
         if (args.Has("--json"))
         {
             var fields = VerbSupport.JsonFields(loaded);
             fields["propagator"] = exactPropagator.Name;
             fields["propagator_reason"] = exactPropagator.Reason;
             fields["explicit_method"] = explicitMethod;
-            fields["explicit_declined"] = explicitDeclined;
-            fields["implicit_steps"] = implicitPropagator?.Statistics;
-            fields["implicit_vs_exact_max_abs_difference"] = implicitDifference?.MaxAbsolute;
-            fields["implicit_vs_exact_max_rel_difference"] = implicitDifference?.MaxRelative;
+            fields["explicit_declined"] = run.ExplicitDeclined;
+            fields["implicit_steps"] = run.ImplicitPropagator?.Statistics;
+            fields["implicit_vs_exact_max_abs_difference"] = run.ImplicitDifference?.MaxAbsolute;
+            fields["implicit_vs_exact_max_rel_difference"] = run.ImplicitDifference?.MaxRelative;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
             fields["max_abs_difference"] = difference?.MaxAbsolute;
@@ -112,7 +96,7 @@ public sealed class RunVerb : IVerb
             fields["steady_state"] = steady.Kind.ToString().ToLowerInvariant();
             fields["steady_state_distance"] = distance;
             fields["final_total_population"] = exact.Populations[^1].Sum();
-            fields["output_times"] = times.Length;
+            fields["output_times"] = run.Times.Length;
             fields["output_folder"] = outputFolder;
             fields["files"] = written;
             JsonSummary.Write(context.Out, fields);
@@ -127,23 +111,23 @@ public sealed class RunVerb : IVerb
                 context.Out.WriteLine($"             {steps.Statistics}");
             }
 
-            if (explicitPropagator is not null)
+            if (run.ExplicitPropagator is { } explicitPropagator)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
             }
-            else if (explicitDeclined is not null)
+            else if (run.ExplicitDeclined is { } declined)
             {
-                context.Out.WriteLine($"explicit     {explicitDeclined}");
+                context.Out.WriteLine($"explicit     {declined}");
             }
 
-            if (implicitPropagator is not null && !ReferenceEquals(implicitPropagator, exactPropagator))
+            if (run.ImplicitPropagator is { } implicitPropagator && !ReferenceEquals(implicitPropagator, exactPropagator))
             {
                 context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
             }
 
-            context.Out.WriteLine($"outputs      {times.Length} times to t = {Format.Number(deck.Run.EndTime)} {deck.TimeUnit}");
+            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Number(run.Times[^1])} {loaded.Deck.TimeUnit}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
-            if (implicitDifference is { } versus)
+            if (run.ImplicitDifference is { } versus)
             {
                 context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Number(versus.WorstTime)}, state {loaded.States.Labels[versus.WorstState]})");
             }
@@ -155,62 +139,14 @@ public sealed class RunVerb : IVerb
         return ExitCodes.Success;
     }
 
-    /// <summary>The exact propagator: chosen from the spectrum and the horizon, or the path asked for with --exact.</summary>
-    private static IPropagator ExactPath(ParsedArguments args, LoadedDeck loaded, double violation, double[] initial, Spectrum spectrum)
+    /// <summary>The exact path asked for with --exact; null for auto (the engine chooses and says why).</summary>
+    private static ExactPathRequest? ExactPath(ParsedArguments args) => args.Value("--exact") switch
     {
-        var path = args.Value("--exact") switch
-        {
-            null or "auto" => (ExactPathRequest?)null,
-            "implicit" => ExactPathRequest.Implicit,
-            "extended" => ExactPathRequest.Extended,
-            var other => throw new UsageException($"--exact takes auto, implicit or extended, not '{other}'"),
-        };
-        if (path is not { } requested)
-        {
-            return ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, violation, initial, spectrum, loaded.Deck.Run.EndTime);
-        }
-
-        try
-        {
-            return ExactPropagatorChoice.Requested(loaded.Rates, spectrum, requested);
-        }
-        catch (ArgumentException e)
-        {
-            throw new UsageException($"--exact {args.Value("--exact")}: {e.Message}");
-        }
-    }
-
-    /// <summary>The explicit step: --dt, else the deck's run.dt, else (or for "auto") safety x the stability limit.</summary>
-    private static double ExplicitStep(ParsedArguments args, RunSpec run, double stabilityLimit)
-    {
-        var text = args.Value("--dt");
-        if (text == "auto" || (text is null && run.Dt is null))
-        {
-            return run.SafetyFactor * stabilityLimit;
-        }
-
-        return args.PositiveNumber("--dt") ?? run.Dt!.Value;
-    }
-
-    private static Trajectory Propagate(IPropagator propagator, double[] initial, double[] times, string label, VerbContext context)
-    {
-        using var progress = new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error);
-        var trajectory = propagator.Propagate(initial, times, progress);
-        progress.Finish();
-        return trajectory;
-    }
-
-    /// <summary>max_i |P_i(t_end) - P_i(steady)| relative to the steady state's total population; null when there is no steady state.</summary>
-    private static double? SteadyDistance(double[] last, double[]? steady)
-    {
-        if (steady is null)
-        {
-            return null;
-        }
-
-        var scale = Math.Max(steady.Sum(Math.Abs), double.Epsilon);
-        return last.Zip(steady, (a, b) => Math.Abs(a - b)).Max() / scale;
-    }
+        null or "auto" => null,
+        "implicit" => ExactPathRequest.Implicit,
+        "extended" => ExactPathRequest.Extended,
+        var other => throw new UsageException($"--exact takes auto, implicit or extended, not '{other}'"),
+    };
 
     private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)
     {
@@ -218,6 +154,11 @@ public sealed class RunVerb : IVerb
         if (difference is not null)
         {
             output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Number(difference.WorstTime)}, state {loaded.States.Labels[difference.WorstState]})");
+        }
+
+        if (LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit) is { } note)
+        {
+            output.WriteLine($"  note: {note}");
         }
 
         output.WriteLine($"  total population at t_end: {Format.Number(exact.Populations[^1].Sum())}");

@@ -25,9 +25,7 @@ public sealed class SteadyVerb : IVerb
     public int Execute(ParsedArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
-        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
-        var initial = RunSetup.InitialPopulations(loaded.Deck, loaded.States);
-        var steady = SteadyState.Compute(loaded.Rates, spectrum, initial, loaded.Algebra);
+        var steady = new DeckRun(loaded).Steady;
         var folder = VerbSupport.OutputFolder(args, loaded.Deck);
         string? file = null;
         if (steady.Populations is { } populations)

@@ -2,6 +2,7 @@ using RateDeck.Cli.CommandLine;
 using RateDeck.Decks;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
+using RateDeck.Pipeline;
 using RateDeck.Text;
 
 namespace RateDeck.Cli.Verbs;
@@ -24,15 +25,18 @@ public sealed class StiffnessVerb : IVerb
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        var method = VerbSupport.Method(args);
         var loaded = VerbSupport.Load(args);
-        var dt = args.PositiveNumber("--dt");
-        var endTime = args.PositiveNumber("--t-end") ?? loaded.Deck.Run.EndTime;
-        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
-        var report = StepLimits.Analyze(spectrum, loaded.Rates, endTime, dt);
-        var chosen = method ?? loaded.Deck.Run.Method;
-        var stable = dt is null || (chosen == ExplicitMethod.Euler ? report.EulerSafe : report.Rk4Safe) == true;
-        var safe = stable && report.WithinBudget != false;
+        var run = new DeckRun(loaded, new RunOptions
+        {
+            Method = VerbSupport.Method(args),
+            Dt = args.PositiveNumber("--dt"),
+            EndTime = args.PositiveNumber("--t-end"),
+        });
+        var spectrum = run.Spectrum;
+        var report = run.StepLimits;
+        var chosen = run.Method;
+        var dt = run.Options.Dt;
+        var safe = dt is null || run.StepVerdict.Safe;
 
         if (args.Has("--json"))
         {
@@ -71,7 +75,7 @@ public sealed class StiffnessVerb : IVerb
         return safe ? ExitCodes.Success : ExitCodes.UnsafeTimeStep;
     }
 
-    private static void WriteSummary(TextWriter output, Pipeline.LoadedDeck loaded, Spectrum spectrum, StiffnessReport report, ExplicitMethod chosen)
+    private static void WriteSummary(TextWriter output, LoadedDeck loaded, Spectrum spectrum, StiffnessReport report, ExplicitMethod chosen)
     {
         VerbSupport.WriteDeckLine(output, loaded);
         output.WriteLine($"spectrum     {spectrum.PathReason}");

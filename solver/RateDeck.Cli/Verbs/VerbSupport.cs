@@ -69,5 +69,5 @@ internal static class VerbSupport
     };
 
     /// <summary>The command-line name of an explicit method.</summary>
-    public static string MethodName(ExplicitMethod method) => method == ExplicitMethod.Euler ? "euler" : "rk4";
+    public static string MethodName(ExplicitMethod method) => Propagation.ExplicitPropagatorChoice.MethodName(method);
 }

@@ -40,6 +40,12 @@ public sealed record Deck
     /// <summary>Statistical weights (degeneracy or density of states times cell width).</summary>
     public required WeightSpec Weights { get; init; }
 
+    /// <summary>
+    /// Which parts of the equilibrium pi the deck states: a full measured matrix may come without
+    /// energies (then all 0) or weights (then all 1), and a pi made of defaults is no claim to check.
+    /// </summary>
+    public EquilibriumGiven EquilibriumGiven { get; init; } = EquilibriumGiven.EnergiesAndWeights;
+
     /// <summary>Where the off-diagonal rates come from.</summary>
     public required CouplingSpec Coupling { get; init; }
 
@@ -63,6 +69,20 @@ public sealed record Deck
 
     /// <summary>The <c>--set key=value</c> overrides applied, as given, in order.</summary>
     public required IReadOnlyList<string> Overrides { get; init; }
+}
+
+/// <summary>Which of the quantities that make pi_i = g_i exp(-E_i / kT) / Z a deck gives.</summary>
+[Flags]
+public enum EquilibriumGiven
+{
+    /// <summary>Neither: energies all 0 and weights all 1 by default (a full measured matrix only).</summary>
+    None = 0,
+    /// <summary>The deck gives energies.</summary>
+    Energies = 1,
+    /// <summary>The deck gives weights.</summary>
+    Weights = 2,
+    /// <summary>The deck gives both.</summary>
+    EnergiesAndWeights = Energies | Weights,
 }
 
 /// <summary>A named deck parameter.</summary>

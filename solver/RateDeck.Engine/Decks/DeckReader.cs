@@ -83,6 +83,18 @@ public static partial class DeckReader
             _grid = GridReader.Read(Section("states"));
             _states = new StateNames(_grid.Labels);
             var mechanics = ReadMechanics(Section("mechanics"), energyUnit, timeUnit);
+            var energies = ReadEnergies(Section("energies"));
+            var weightsSection = Section("weights");
+            var weights = ReadWeights(weightsSection, mechanics);
+            var coupling = ReadTransfer(Section("transfer"));
+            var given = (energies is null ? EquilibriumGiven.None : EquilibriumGiven.Energies)
+                | (weightsSection.Exists ? EquilibriumGiven.Weights : EquilibriumGiven.None);
+
+            // Completion needs pi; a full measured matrix has its own stationary law and needs none.
+            if (energies is null && coupling is not MeasuredFull)
+            {
+                throw NoChoice(Section("energies"), "values = [...] (one energy per state) or expression = \"...\" (only a full measured matrix, kind = \"full\", may leave energies out)");
+            }
 
             return new Deck
             {
@@ -95,9 +107,10 @@ public static partial class DeckReader
                 KT = kT,
                 KTSpan = kTSpan,
                 Grid = _grid,
-                Energies = ReadEnergies(Section("energies")),
-                Weights = ReadWeights(Section("weights"), mechanics),
-                Coupling = ReadTransfer(Section("transfer")),
+                Energies = energies ?? new PerStateValues(new double[_grid.Count], _deckSpan),
+                Weights = weights,
+                EquilibriumGiven = given,
+                Coupling = coupling,
                 Losses = ReadRates(Section("losses")),
                 Pumping = ReadRates(Section("pumping")),
                 Initial = ReadInitial(Section("initial")),
@@ -190,13 +203,15 @@ public static partial class DeckReader
             return result;
         }
 
-        private PerStateSource ReadEnergies(DeckSection energies)
+        /// <summary>The energies, or null when the deck has no [energies] table.</summary>
+        private PerStateSource? ReadEnergies(DeckSection energies)
         {
             var choice = energies.Choice(DeckSchema.Alternatives["energies"]);
             return choice switch
             {
                 "values" => Values(energies, "values", (_, _) => { }),
                 "expression" => Expression(energies, "expression"),
+                _ when !energies.Exists => null,
                 _ => throw NoChoice(energies, "values = [...] (one energy per state) or expression = \"...\""),
             };
         }

@@ -8,8 +8,9 @@ public sealed record CheckOutcome(string Name, bool Passed, string Detail);
 
 /// <summary>How the deck's equilibrium pi, restricted to one closed class, agrees with the null vector of K on it.</summary>
 /// <param name="Class">The closed class.</param>
-/// <param name="MaxDifference">max_i |pi_i - v_i| with both normalised to sum 1 on the class; null when the class carries no null vector.</param>
-public sealed record ClassAgreement(ClosedClass Class, double? MaxDifference);
+/// <param name="MaxDifference">max_i |pi_i - v_i| with both normalised to sum 1 on the class; null when the class carries no null vector or the deck states no pi to compare.</param>
+/// <param name="StationaryLaw">The matrix's own stationary law on the class (its null vector, summing to 1, in the class's state order); null when the class carries no null vector.</param>
+public sealed record ClassAgreement(ClosedClass Class, double? MaxDifference, IReadOnlyList<double>? StationaryLaw = null);
 
 /// <summary>Everything <see cref="MatrixChecks.Check(RateDeck.Rates.RateMatrix, RateDeck.LinearAlgebra.ILinearAlgebra)"/> measured.</summary>
 /// <param name="NonFiniteCount">Entries of K, the losses or the pumping that are NaN or infinite.</param>

@@ -1,4 +1,5 @@
 using RateDeck.Rates;
+using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 
@@ -38,6 +39,49 @@ public sealed record BalanceReport(
     public bool Holds => Origin == BalanceOrigin.CompletedByDetailedBalance
         ? HoldsForDeckEquilibrium
         : OneWayCount == 0 && (CycleViolation ?? 0) <= DetailedBalance.CycleTolerance;
+
+    /// <summary>
+    /// False for a matrix taken as given from a deck with neither energies nor weights: its pi is
+    /// the defaults, no claim of the user's, so a violation against it is reported as such.
+    /// </summary>
+    public bool DeckGivesEquilibrium { get; init; } = true;
+
+    /// <summary>
+    /// The one policy deciding whether S = D^(-1/2) K D^(1/2), built with the deck's pi, is
+    /// symmetric, so that the symmetric eigen paths (spectrum and exact propagation) may be taken:
+    /// by construction for a completed matrix, else only when balance holds for the deck's own pi.
+    /// A matrix balanced for some other equilibrium (<see cref="Holds"/> by its cycles) does not
+    /// qualify: symmetrizing it with the deck's pi gives a non-symmetric S.
+    /// </summary>
+    public bool SymmetrizesWithDeckEquilibrium => Origin == BalanceOrigin.CompletedByDetailedBalance || HoldsForDeckEquilibrium;
+
+    /// <summary>Why the symmetric paths are or are not open, one clause for summaries (see <see cref="SymmetrizesWithDeckEquilibrium"/>).</summary>
+    public string SymmetryReason
+    {
+        get
+        {
+            if (Origin == BalanceOrigin.CompletedByDetailedBalance)
+            {
+                return "detailed balance holds by construction (one direction completed from the other)";
+            }
+
+            if (OneWayCount > 0)
+            {
+                return $"no detailed balance: {Format.Count(OneWayCount, "one-way edge", "one-way edges")} (rate one way, none back)";
+            }
+
+            var pair = WorstPair is null ? "no resolvable pair" : $"worst pairwise violation {Format.Number(PairViolation)} between {WorstPair.From} and {WorstPair.To}";
+            if (HoldsForDeckEquilibrium)
+            {
+                return $"detailed balance holds for the deck's pi ({pair}, tolerance {Format.Number(DetailedBalance.PairTolerance)})";
+            }
+
+            var other = Holds ? "; the matrix is balanced for another equilibrium (its Kolmogorov cycles close), not the deck's" : "";
+            return DeckGivesEquilibrium
+                ? $"no detailed balance for the deck's pi ({pair} > {Format.Number(DetailedBalance.PairTolerance)}){other}"
+                : $"the deck gives no pi (no energies or weights), and K is not symmetric for the default pi ({pair} > {Format.Number(DetailedBalance.PairTolerance)}){other}";
+        }
+    }
 }
 
 /// <summary>
@@ -171,7 +215,10 @@ public static class DetailedBalance
         }
 
         var cycles = new CycleSearch(rates);
-        return new BalanceReport(worst, worstPair, oneWayCount, oneWay, cycles.WorstViolation, cycles.WorstCycle, cycles.Count, rates.Origin);
+        return new BalanceReport(worst, worstPair, oneWayCount, oneWay, cycles.WorstViolation, cycles.WorstCycle, cycles.Count, rates.Origin)
+        {
+            DeckGivesEquilibrium = rates.States.EquilibriumGiven != Decks.EquilibriumGiven.None,
+        };
     }
 
     /// <summary>Fundamental cycles of the two-way support graph against a breadth-first spanning forest.</summary>

@@ -27,21 +27,28 @@ public static class MatrixChecks
     /// </summary>
     public const double EquilibriumToleranceFloor = 1e-9;
 
-    /// <summary>Runs every check; computes the spectrum once with <paramref name="algebra"/>.</summary>
+    /// <summary>Runs every check; measures the balance and computes the spectrum once with <paramref name="algebra"/>.</summary>
     public static CheckReport Check(RateMatrix rates, ILinearAlgebra algebra)
     {
         var balance = DetailedBalance.Analyze(rates);
-        var nonFinite = CountNonFinite(rates);
-        var spectrum = nonFinite == 0 ? Spectrum.Compute(rates, algebra, rates.Origin == BalanceOrigin.TakenAsGiven ? balance : null) : null;
-        return Check(rates, spectrum, balance, nonFinite);
+        return Check(rates, balance, HasNonFiniteEntries(rates) ? null : Spectrum.Compute(rates, algebra, balance));
     }
 
-    /// <summary>Runs every check against a spectrum computed before (it must belong to <paramref name="rates"/>).</summary>
-    public static CheckReport Check(RateMatrix rates, Spectrum spectrum) =>
-        Check(rates, spectrum, DetailedBalance.Analyze(rates), CountNonFinite(rates));
-
-    private static CheckReport Check(RateMatrix rates, Spectrum? spectrum, BalanceReport balance, int nonFinite)
+    /// <summary>
+    /// Runs every check with the balance and the spectrum of <paramref name="rates"/> measured
+    /// before; <paramref name="spectrum"/> is null exactly when K has non-finite entries (no
+    /// eigen-solver can use it; see <see cref="HasNonFiniteEntries"/>).
+    /// </summary>
+    public static CheckReport Check(RateMatrix rates, BalanceReport balance, Spectrum? spectrum)
     {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(balance);
+        var nonFinite = CountNonFinite(rates);
+        if ((spectrum is null) != (nonFinite > 0))
+        {
+            throw new ArgumentException("a spectrum is required exactly when every entry of K is finite", nameof(spectrum));
+        }
+
         var labels = rates.States.Labels;
         var n = rates.Count;
         var checks = new List<CheckOutcome>
@@ -57,7 +64,8 @@ public static class MatrixChecks
         checks.Add(new("non-negative rates", negativeCount == 0, negativeCount == 0
             ? "every off-diagonal rate is >= 0"
             : $"{Format.Count(negativeCount, "negative off-diagonal rate", "negative off-diagonal rates")}; the worst is {Format.Number(worstNegative!.Value)} from {worstNegative.From} to {worstNegative.To}"));
-        checks.Add(new("detailed balance", balance.Holds, BalanceDetail(balance)));
+        var claim = ClaimedEquilibrium(rates);
+        checks.Add(new("detailed balance", balance.Holds, BalanceDetail(balance, claim)));
 
         var classes = TransitionGraph.Classify(rates);
         var expectedNull = classes.LossFreeCount;
@@ -81,13 +89,16 @@ public static class MatrixChecks
                 equilibriumTolerance = Math.Max(EquilibriumToleranceFloor, spectrum.ZeroTolerance / slowest);
             }
 
-            agreement.AddRange(classes.Closed.Select(c => new ClassAgreement(c, EquilibriumDifference(rates, spectrum, c))));
-            checks.Add(EquilibriumOutcome(agreement, equilibriumTolerance));
+            agreement.AddRange(classes.Closed.Select(c => Agreement(rates, spectrum, c, claim is not null)));
+            checks.Add(EquilibriumOutcome(agreement, equilibriumTolerance, claim));
         }
 
         return new CheckReport(nonFinite, conservation, worstColumn is null ? null : labels[worstColumn.Value], negativeCount, worstNegative,
             balance, classes, spectrum, expectedNull, agreement, equilibriumTolerance, checks);
     }
+
+    /// <summary>True when an entry of K, the losses or the pumping is NaN or infinite.</summary>
+    public static bool HasNonFiniteEntries(RateMatrix rates) => CountNonFinite(rates) > 0;
 
     private static int CountNonFinite(RateMatrix rates) =>
         (rates.Sparse?.Values ?? rates.Generator.Values).Count(v => !double.IsFinite(v)) + rates.Loss.Count(v => !double.IsFinite(v)) + rates.Pumping.Count(v => !double.IsFinite(v));
@@ -163,7 +174,20 @@ public static class MatrixChecks
         return (count, worst);
     }
 
-    private static string BalanceDetail(BalanceReport balance)
+    /// <summary>
+    /// What the deck's pi is made of, for messages ("its energies and weights"); null when the deck
+    /// gives a full measured matrix with neither, so that pi is defaults and no claim to check.
+    /// </summary>
+    public static string? ClaimedEquilibrium(RateMatrix rates) => rates.States.EquilibriumGiven switch
+    {
+        Decks.EquilibriumGiven.EnergiesAndWeights => "its energies and weights",
+        Decks.EquilibriumGiven.Energies => "its energies, weights all 1",
+        Decks.EquilibriumGiven.Weights => "its weights, energies all 0",
+        _ when rates.Origin == BalanceOrigin.CompletedByDetailedBalance => "the defaults, energies 0 and weights 1",
+        _ => null,
+    };
+
+    private static string BalanceDetail(BalanceReport balance, string? claim)
     {
         var parts = new List<string>();
         if (balance.OneWayCount > 0)
@@ -179,8 +203,12 @@ public static class MatrixChecks
                 : "the two-way support has no cycle");
         }
 
-        var pair = balance.WorstPair is null ? "no resolvable pair" : $"{Format.Number(balance.PairViolation)} between {balance.WorstPair.From} and {balance.WorstPair.To}";
-        parts.Add($"worst pairwise violation against the deck's pi {pair} (tolerance {Format.Number(DetailedBalance.PairTolerance)})");
+        if (claim is not null)
+        {
+            var pair = balance.WorstPair is null ? "no resolvable pair" : $"{Format.Number(balance.PairViolation)} between {balance.WorstPair.From} and {balance.WorstPair.To}";
+            parts.Add($"worst pairwise violation against the deck's pi (from {claim}) {pair} (tolerance {Format.Number(DetailedBalance.PairTolerance)})");
+        }
+
         return string.Join("; ", parts);
     }
 
@@ -203,30 +231,23 @@ public static class MatrixChecks
     }
 
     /// <summary>
-    /// max |pi - law| on a loss-free closed class, the law by the subtraction-free elimination of
-    /// <see cref="StationaryLaw"/> for a dense K (accurate at any stiffness, independent of the
-    /// eigen-solver), else the null vector of the spectrum; null for a class with loss.
+    /// The class's stationary law and, when the deck claims a pi, their largest difference. For a
+    /// loss-free class of a dense K the law comes from the subtraction-free elimination of
+    /// <see cref="StationaryLaw"/> (accurate at any stiffness, independent of the eigen-solver);
+    /// otherwise it is the class's null vector.
     /// </summary>
-    private static double? EquilibriumDifference(RateMatrix rates, Spectrum spectrum, ClosedClass closedClass)
+    private static ClassAgreement Agreement(RateMatrix rates, Spectrum spectrum, ClosedClass closedClass, bool compare)
     {
-        if (closedClass.HasLoss)
+        var nullVector = !closedClass.HasLoss && !rates.IsSparse && TryStationaryLaw(rates, closedClass) is { } law
+            ? law
+            : spectrum.NullVectorOn(closedClass.States);
+        if (nullVector is null || !compare)
         {
-            return null;
+            return new ClassAgreement(closedClass, null, nullVector);
         }
 
         var pi = LogSpace.NormalizedOn(rates.States.LogEquilibrium, closedClass.States);
-        if (!rates.IsSparse && TryStationaryLaw(rates, closedClass) is { } law)
-        {
-            return pi.Zip(law, (p, v) => Math.Abs(p - v)).Max();
-        }
-
-        var nullVector = spectrum.NullVectorOn(closedClass.States);
-        if (nullVector is null)
-        {
-            return null;
-        }
-
-        return pi.Zip(nullVector, (p, v) => Math.Abs(p - v)).Max();
+        return new ClassAgreement(closedClass, pi.Zip(nullVector, (p, v) => Math.Abs(p - v)).Max(), nullVector);
     }
 
     /// <summary>The class's law by elimination, or null when a completed rate that underflowed leaves a state with no rate to the states kept (the null vector then serves).</summary>
@@ -242,24 +263,44 @@ public static class MatrixChecks
         }
     }
 
-    private static CheckOutcome EquilibriumOutcome(IReadOnlyList<ClassAgreement> agreement, double tolerance)
+    /// <summary>
+    /// pi against the null vector on every closed class without loss (a class with loss has no
+    /// stationary law to compare); with no claimed pi, only that each such class has a null vector.
+    /// </summary>
+    private static CheckOutcome EquilibriumOutcome(IReadOnlyList<ClassAgreement> agreement, double tolerance, string? claim)
     {
         var problems = new List<string>();
-        foreach (var entry in agreement.Where(a => !a.Class.HasLoss))
+        var lossFree = agreement.Where(a => !a.Class.HasLoss).ToList();
+        foreach (var entry in lossFree)
         {
-            if (entry.MaxDifference is not { } difference)
+            if (entry.StationaryLaw is null)
             {
                 problems.Add($"no null vector on the class {Format.Labels(entry.Class.Labels)}");
             }
-            else if (difference > tolerance)
+            else if (entry.MaxDifference is { } difference && difference > tolerance)
             {
-                problems.Add($"pi differs from the null vector by up to {Format.Number(difference)} on the class {Format.Labels(entry.Class.Labels)}");
+                problems.Add($"the deck's pi (from {claim}) differs from the null vector by up to {Format.Number(difference)} on the class {Format.Labels(entry.Class.Labels)}");
             }
         }
 
-        var worst = agreement.Select(a => a.MaxDifference ?? 0).DefaultIfEmpty(0).Max();
-        return problems.Count == 0
-            ? new CheckOutcome("equilibrium", true, $"pi agrees with the null vector on every loss-free closed class to {Format.Number(worst)} (tolerance {Format.Number(tolerance)})")
-            : new CheckOutcome("equilibrium", false, string.Join("; ", problems) + $" (tolerance {Format.Number(tolerance)})");
+        var lossy = agreement.Count - lossFree.Count;
+        var skipped = lossy == 0 ? "" : $"; {Format.Count(lossy, "class with loss has", "classes with loss have")} no stationary law and {(lossy == 1 ? "is" : "are")} not compared";
+        if (problems.Count > 0)
+        {
+            return new CheckOutcome("equilibrium", false, string.Join("; ", problems) + $" (tolerance {Format.Number(tolerance)}){skipped}");
+        }
+
+        if (lossFree.Count == 0)
+        {
+            return new CheckOutcome("equilibrium", true, "every closed class has a loss, so there is no stationary law to compare");
+        }
+
+        if (claim is null)
+        {
+            return new CheckOutcome("equilibrium", true, $"the deck gives no energies or weights, so there is no pi to compare: the matrix's own stationary law (its null vector) is reported per class{skipped}");
+        }
+
+        var worst = lossFree.Select(a => a.MaxDifference ?? 0).DefaultIfEmpty(0).Max();
+        return new CheckOutcome("equilibrium", true, $"the deck's pi (from {claim}) agrees with the null vector on every loss-free closed class to {Format.Number(worst)} (tolerance {Format.Number(tolerance)}){skipped}");
     }
 }

@@ -2,7 +2,6 @@ using System.Numerics;
 using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
-using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 
@@ -180,41 +179,32 @@ public sealed class Spectrum
     public GeneralEigenDecomposition? General { get; }
 
     /// <summary>
-    /// Decides the path and computes the eigenvalues: the symmetric solver on S when the matrix was
-    /// completed by detailed balance, or was taken as given and measures within
-    /// <see cref="DetailedBalance.PairTolerance"/> of balance against the deck's pi with no one-way
-    /// edge; otherwise the general solver on K. Throws <see cref="ArgumentException"/> when K has a
-    /// non-finite entry (no eigen-solver can use it).
+    /// Decides the path and computes the eigenvalues: the symmetric solver on S when
+    /// <see cref="BalanceReport.SymmetrizesWithDeckEquilibrium"/> (completed by detailed balance,
+    /// or taken as given and balanced for the deck's own pi); otherwise the general solver on K.
+    /// Measures the balance first; throws <see cref="ArgumentException"/> when K has a non-finite
+    /// entry (no eigen-solver can use it).
     /// </summary>
     public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra) =>
-        Compute(rates, algebra, rates.Origin == BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(rates) : null);
+        Compute(rates, algebra, DetailedBalance.Analyze(rates));
 
-    /// <summary>As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance already measured (null for completed matrices).</summary>
-    public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport? balance)
+    /// <summary>As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance of <paramref name="rates"/> already measured.</summary>
+    public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport balance)
     {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(balance);
         if ((rates.Sparse?.Values ?? rates.Generator.Values).Any(v => !double.IsFinite(v)))
         {
             throw new ArgumentException("the rate matrix has non-finite entries; fix the rates before asking for its spectrum", nameof(rates));
         }
 
-        string reason;
-        if (rates.Origin == BalanceOrigin.CompletedByDetailedBalance)
+        if (!balance.SymmetrizesWithDeckEquilibrium)
         {
-            reason = "detailed balance holds by construction (one triangle completed from pi): symmetric eigen-decomposition of S";
-        }
-        else if (balance is { HoldsForDeckEquilibrium: true })
-        {
-            reason = $"measured detailed-balance violation {Format.Number(balance.PairViolation)} is within {Format.Number(DetailedBalance.PairTolerance)} for the deck's pi: symmetric eigen-decomposition of S";
-        }
-        else
-        {
-            var why = balance is null || balance.OneWayCount == 0
-                ? $"worst pair violation {Format.Number(balance?.PairViolation ?? double.NaN)} exceeds {Format.Number(DetailedBalance.PairTolerance)}"
-                : Format.Count(balance.OneWayCount, "one-way edge", "one-way edges");
             var decomposition = algebra.GeneralEigen(rates.Generator);
-            return new Spectrum(rates, SpectrumPath.General, $"detailed balance fails for the deck's pi ({why}): general eigen-decomposition of K", decomposition.Values, null, decomposition);
+            return new Spectrum(rates, SpectrumPath.General, $"{balance.SymmetryReason}: general eigen-decomposition of K", decomposition.Values, null, decomposition);
         }
 
+        var reason = $"{balance.SymmetryReason}: symmetric eigen-decomposition of S";
         if (rates.IsSparse)
         {
             return ComputeBand(rates, algebra, reason);

@@ -7,9 +7,9 @@ namespace RateDeck.Propagation;
 
 /// <summary>
 /// Picks the exact propagator for a rate matrix and says why (SPEC 2): for a sparse (banded) K
-/// under detailed balance the contour exponential (<see cref="ContourExponentialPropagator"/>,
+/// under detailed balance for the deck's pi the contour exponential (<see cref="ContourExponentialPropagator"/>,
 /// O(N) memory) while its rounding is harmless for the start; else the symmetric
-/// eigen-decomposition when detailed balance holds and its rounding is harmless for the start
+/// eigen-decomposition when detailed balance holds for the deck's pi and its rounding is harmless for the start
 /// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
 /// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
 /// exponential. Before any of these, the spectrum's resolution decides (docs/stiff-decks.md): when
@@ -34,8 +34,6 @@ public static class ExactPropagatorChoice
     /// <summary>Largest N the implicit integrator takes (it factors N x N matrices: 2/3 N^3 operations per step size).</summary>
     public const int ImplicitStateLimit = 2000;
 
-    /// <summary>Detailed balance counts as holding below this relative violation.</summary>
-    public const double DetailedBalanceThreshold = 1e-10;
 
     /// <summary>
     /// The general eigen path is taken while ||V||_1 ||V^-1||_1 is below this: its rounding is
@@ -44,9 +42,10 @@ public static class ExactPropagatorChoice
     public const double ConditionThreshold = 1e8;
 
     /// <summary>
-    /// The propagator for <paramref name="rates"/>. <paramref name="detailedBalanceViolation"/> is
-    /// the relative violation reported by the diagnostics (the worst Kolmogorov cycle); it is
-    /// ignored when the matrix was completed by detailed balance. NaN counts as violated.
+    /// The propagator for <paramref name="rates"/>. <paramref name="balance"/> is the diagnostics'
+    /// balance report of the same matrix (measured here when null); the symmetric paths are open
+    /// only when <see cref="BalanceReport.SymmetrizesWithDeckEquilibrium"/>, the one policy the
+    /// spectrum follows too.
     /// Pass <paramref name="initial"/> (P(0)) when known: under detailed balance the symmetric
     /// path is then kept unless its rounding for this start would exceed
     /// <see cref="SymmetricEigenPropagator.RelativeErrorLimit"/>; without it the worst start (all
@@ -61,22 +60,30 @@ public static class ExactPropagatorChoice
     /// </para>
     /// </summary>
     /// <exception cref="DenseStorageException">No path fits: the spectrum is unresolved and N exceeds <see cref="ImplicitStateLimit"/>.</exception>
-    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, double detailedBalanceViolation, double[]? initial = null, Spectrum? spectrum = null, double? horizon = null)
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, BalanceReport? balance = null, double[]? initial = null, Spectrum? spectrum = null, double? horizon = null)
     {
         ArgumentNullException.ThrowIfNull(rates);
         ArgumentNullException.ThrowIfNull(la);
-        spectrum ??= Spectrum.Compute(rates, la, rates.Origin == BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(rates) : null);
+        balance ??= DetailedBalance.Analyze(rates);
+        if (balance.Origin != rates.Origin)
+        {
+            throw new ArgumentException("the balance report belongs to another rate matrix", nameof(balance));
+        }
+
+        spectrum ??= Spectrum.Compute(rates, la, balance);
         if (StiffChoice(rates, spectrum, horizon) is { } stiff)
         {
             return stiff;
         }
 
-        var balance = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
-            ? "detailed balance holds by construction (one direction completed from the other)"
-            : detailedBalanceViolation < DetailedBalanceThreshold
-                ? Format($"detailed balance holds (relative violation {detailedBalanceViolation:G3} < {DetailedBalanceThreshold:G3})")
-                : null;
-        if (balance is not null && rates.IsSparse)
+        return balance.SymmetrizesWithDeckEquilibrium
+            ? ChooseSymmetric(rates, la, balance.SymmetryReason, initial, spectrum)
+            : ChooseGeneral(rates, la, balance.SymmetryReason, spectrum);
+    }
+
+    private static IPropagator ChooseSymmetric(RateMatrix rates, ILinearAlgebra la, string balance, double[]? initial, Spectrum? spectrum)
+    {
+        if (rates.IsSparse)
         {
             var contour = new ContourExponentialPropagator(rates);
             var contourEstimate = initial is null ? contour.WorstCaseRelativeError : contour.RelativeErrorEstimate(initial);
@@ -93,26 +100,25 @@ public static class ExactPropagatorChoice
             }
         }
 
-        if (balance is not null)
+        var symmetric = spectrum?.Symmetric is { } decomposition
+            ? new SymmetricEigenPropagator(rates, decomposition, la)
+            : new SymmetricEigenPropagator(rates, la);
+        var estimate = initial is null ? symmetric.WorstCaseRelativeError : symmetric.RelativeErrorEstimate(initial);
+        var start = initial is null ? "the worst initial state" : "this initial state";
+        if (estimate <= SymmetricEigenPropagator.RelativeErrorLimit)
         {
-            var symmetric = spectrum?.Symmetric is { } decomposition
-                ? new SymmetricEigenPropagator(rates, decomposition, la)
-                : new SymmetricEigenPropagator(rates, la);
-            var estimate = initial is null ? symmetric.WorstCaseRelativeError : symmetric.RelativeErrorEstimate(initial);
-            var start = initial is null ? "the worst initial state" : "this initial state";
-            if (estimate <= SymmetricEigenPropagator.RelativeErrorLimit)
-            {
-                symmetric.Reason = $"symmetric eigen-decomposition: {balance}";
-                return symmetric;
-            }
-
-            return new PadeExponentialPropagator(rates, la)
-            {
-                Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
-            };
+            symmetric.Reason = $"symmetric eigen-decomposition: {balance}";
+            return symmetric;
         }
 
-        var violation = Format($"no detailed balance (relative violation {detailedBalanceViolation:G3} >= {DetailedBalanceThreshold:G3})");
+        return new PadeExponentialPropagator(rates, la)
+        {
+            Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
+        };
+    }
+
+    private static IPropagator ChooseGeneral(RateMatrix rates, ILinearAlgebra la, string violation, Spectrum? spectrum)
+    {
         var general = spectrum?.General is { } eigen
             ? new GeneralEigenPropagator(rates, eigen, la)
             : new GeneralEigenPropagator(rates, la);

@@ -14,4 +14,7 @@ public static class ExplicitPropagatorChoice
         ExplicitMethod.RungeKutta4 => new RungeKutta4Propagator(rates, dt),
         _ => throw new ArgumentOutOfRangeException(nameof(method), method, "unknown explicit method"),
     };
+
+    /// <summary>The method's short name, as on the command line and in file names: "euler" or "rk4".</summary>
+    public static string MethodName(ExplicitMethod method) => method == ExplicitMethod.Euler ? "euler" : "rk4";
 }

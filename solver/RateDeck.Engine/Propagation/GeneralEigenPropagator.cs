@@ -112,6 +112,7 @@ public sealed class GeneralEigenPropagator : IPropagator
         }
 
         throttle.Complete();
+        PropagationInput.PinStart(initial, times, populations);
         return new Trajectory(times.ToArray(), populations);
     }
 

@@ -87,6 +87,7 @@ public sealed class PadeExponentialPropagator : IPropagator
         }
 
         throttle.Complete();
+        PropagationInput.PinStart(initial, times, populations);
         return new Trajectory(times.ToArray(), populations);
     }
 

@@ -27,4 +27,16 @@ internal static class PropagationInput
             }
         }
     }
+
+    /// <summary>
+    /// Sets every output at t = 0 to a copy of <paramref name="initial"/>: P(0) is known exactly,
+    /// and a round trip through a decomposition would return it with rounding (1 + 4e-16, -6e-14).
+    /// </summary>
+    public static void PinStart(double[] initial, IReadOnlyList<double> times, double[][] populations)
+    {
+        for (var k = 0; k < times.Count && times[k] == 0; k++)
+        {
+            populations[k] = (double[])initial.Clone();
+        }
+    }
 }

@@ -183,6 +183,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         }
 
         throttle.Complete();
+        PropagationInput.PinStart(initial, times, populations);
         return new Trajectory(times.ToArray(), populations);
     }
 

@@ -39,4 +39,7 @@ public sealed class StateSpace
 
     /// <summary>ln pi_i, normalised so that sum_i pi_i = 1.</summary>
     public double[] LogEquilibrium { get; }
+
+    /// <summary>Which of energies and weights the deck gave; pi made only of defaults (all E 0, all g 1) is no claim.</summary>
+    public Decks.EquilibriumGiven EquilibriumGiven { get; init; } = Decks.EquilibriumGiven.EnergiesAndWeights;
 }

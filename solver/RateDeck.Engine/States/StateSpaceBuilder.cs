@@ -54,7 +54,8 @@ public static class StateSpaceBuilder
             energies,
             logWeights,
             deck.KT,
-            logEquilibrium);
+            logEquilibrium)
+        { EquilibriumGiven = deck.EquilibriumGiven };
     }
 
     /// <summary>

@@ -116,24 +116,7 @@ public sealed class ExitCodeTests
     {
         using var folder = new TempFolder();
         // A cyclic three-state matrix: a -> b -> c -> a only; one-way edges break detailed balance.
-        File.WriteAllText(folder.File("cycle.csv"), "from,to,rate\na,b,1\nb,c,1\nc,a,1\n");
-        var deck = folder.File("cycle.toml");
-        File.WriteAllText(deck, """
-            format = 1
-            title = "cycle"
-            [temperature]
-            kT = 1
-            [states]
-            coordinates = [1, 2, 3]
-            labels = ["a", "b", "c"]
-            [energies]
-            values = [0, 0, 0]
-            [transfer]
-            kind = "full"
-            csv = "cycle.csv"
-            [run]
-            t_end = 1
-            """);
+        var deck = ResultFiles.FullMatrixDeck(folder, "cycle", "[0, 0, 0]", "a,b,1\nb,c,1\nc,a,1\n", "[run]\nt_end = 1");
 
         var (code, output, _) = CliRunner.Run("check", deck);
 

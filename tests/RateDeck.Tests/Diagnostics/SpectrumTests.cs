@@ -164,6 +164,6 @@ public class SpectrumTests
         var spectrum = Spectrum.Compute(TestMatrices.FromFixture("balanced4", BalanceOrigin.TakenAsGiven), _algebra);
 
         Assert.Equal(SpectrumPath.Symmetrized, spectrum.Path);
-        Assert.Contains("measured detailed-balance violation", spectrum.PathReason);
+        Assert.Contains("detailed balance holds for the deck's pi", spectrum.PathReason);
     }
 }

@@ -43,7 +43,7 @@ public class ClosedFormTests
         double[] initial = [0.1, 0.4];
         double[] times = [0.0, 0.25, 1.0, 3.0, 10.0, 400.0];
 
-        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), double.NaN, initial);
+        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), initial: initial);
         Assert.Equal("symmetric-eigen", chosen.Name);
         foreach (var propagator in TestRates.ExactPaths(rates).Append(chosen).Append(new RungeKutta4Propagator(rates, 1e-3)))
         {
@@ -75,7 +75,7 @@ public class ClosedFormTests
         // so the choice must avoid eigen-decompositions.
         const double k = 1.3;
         var rates = TestRates.Build(new double[,] { { 0, 0, 0 }, { k, 0, 0 }, { 0, k, 0 } }, loss: [0, 0, k]);
-        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), 1.0);
+        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra());
         Assert.Equal("pade-exponential", chosen.Name);
         Assert.Contains("condition", chosen.Reason, StringComparison.Ordinal);
         double[] times = [0.0, 0.4, 1.0, 2.5, 8.0];

@@ -51,10 +51,11 @@ public class ExpmFixtureTests
     {
         var fixture = Cases().Single(c => c.Name == name);
         var rates = TestRates.FromRows(fixture.Generator, fixture.Pumping);
+
         // The columns of the fixture's K sum to rounding (about 1e-14), read as tiny losses: the slow
         // mode they make is below the solver's accuracy but cannot move over the run, so the choice
         // is made for the run's horizon.
-        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), detailedBalanceViolation: 1.0, horizon: fixture.Times.Max());
+        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), horizon: fixture.Times.Max());
 
         // The path decision agrees with NumPy's own eigenvector condition number (1-norm, unit columns).
         var expectedPath = fixture.NumpyCondition >= ExactPropagatorChoice.ConditionThreshold ? "pade-exponential" : "general-eigen";
@@ -84,10 +85,7 @@ public class ExpmFixtureTests
         var fixture = Cases().Single(c => c.Name == "nearly_defective3");
         var rates = TestRates.FromRows(fixture.Generator, fixture.Pumping);
         var general = new GeneralEigenPropagator(rates, new ManagedLinearAlgebra());
-        // The columns of the fixture's K sum to rounding (about 1e-14), read as tiny losses: the slow
-        // mode they make is below the solver's accuracy but cannot move over the run, so the choice
-        // is made for the run's horizon.
-        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), detailedBalanceViolation: 1.0, horizon: fixture.Times.Max());
+        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra());
 
         // Three eigenvalues within 2e-7: the eigenvector matrix is about 1 / (1e-7)^2 from singular
         // (NumPy gives 2e14 for the same matrix).

@@ -1,3 +1,4 @@
+using RateDeck.Diagnostics;
 using RateDeck.LinearAlgebra;
 using RateDeck.Propagation;
 using RateDeck.Rates;
@@ -74,17 +75,20 @@ public class PathAgreementTests
         var given = TestRates.Build(offDiagonal, logPi: completed.States.LogEquilibrium, origin: BalanceOrigin.TakenAsGiven);
         var la = new ManagedLinearAlgebra();
 
-        var balanced = ExactPropagatorChoice.Choose(given, la, 3e-14);
+        var balanced = ExactPropagatorChoice.Choose(given, la, DetailedBalance.Analyze(given));
         Assert.Equal("symmetric-eigen", balanced.Name);
-        Assert.Contains("relative violation 3E-14 < 1E-10", balanced.Reason, StringComparison.Ordinal);
+        Assert.Contains("detailed balance holds for the deck's pi (worst pairwise violation", balanced.Reason, StringComparison.Ordinal);
 
-        var unbalanced = ExactPropagatorChoice.Choose(given, la, 0.2);
+        // One rate 20 % too large: that pair now violates balance by 1 - 1/1.2 = 0.167.
+        offDiagonal[2, 1] *= 1.2;
+        var perturbed = TestRates.Build(offDiagonal, logPi: completed.States.LogEquilibrium, origin: BalanceOrigin.TakenAsGiven);
+        var unbalanced = ExactPropagatorChoice.Choose(perturbed, la, DetailedBalance.Analyze(perturbed));
         var general = Assert.IsType<GeneralEigenPropagator>(unbalanced);
         Assert.True(general.EigenvectorCondition < ExactPropagatorChoice.ConditionThreshold);
-        Assert.Contains("no detailed balance (relative violation 0.2 >= 1E-10)", general.Reason, StringComparison.Ordinal);
+        Assert.Contains("no detailed balance for the deck's pi (worst pairwise violation 0.167", general.Reason, StringComparison.Ordinal);
         Assert.Contains("eigenvector condition estimate", general.Reason, StringComparison.Ordinal);
 
-        var byConstruction = ExactPropagatorChoice.Choose(completed, la, double.NaN);
+        var byConstruction = ExactPropagatorChoice.Choose(completed, la, DetailedBalance.Analyze(completed));
         Assert.Contains("by construction", byConstruction.Reason, StringComparison.Ordinal);
     }
 

@@ -21,7 +21,7 @@ public class SharedDecompositionTests
         var initial = new double[n];
         initial[0] = 1.0;
 
-        var chosen = ExactPropagatorChoice.Choose(rates, la, 0.0, initial, spectrum);
+        var chosen = ExactPropagatorChoice.Choose(rates, la, DetailedBalance.Analyze(rates), initial, spectrum);
 
         var symmetric = Assert.IsType<SymmetricEigenPropagator>(chosen);
         double[] times = [0.0, 0.5, 2.0, 20.0];

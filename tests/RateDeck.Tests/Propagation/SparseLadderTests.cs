@@ -52,7 +52,7 @@ public class SparseLadderTests
         double[] times = [0.0, 0.2, 1.0, 5.0, 30.0, 300.0];
 
         var exactDense = new SymmetricEigenPropagator(dense, new ManagedLinearAlgebra()).Propagate(initial, times);
-        var exactSparse = ExactPropagatorChoice.Choose(sparse, new ManagedLinearAlgebra(), 0.0, initial);
+        var exactSparse = ExactPropagatorChoice.Choose(sparse, new ManagedLinearAlgebra(), initial: initial);
         Assert.IsType<ContourExponentialPropagator>(exactSparse);
         AssertClose(exactDense, exactSparse.Propagate(initial, times), 1e-10);
 

@@ -42,7 +42,7 @@ public static class LadderBench
         initial[(largest / 2) - 1] = 1.0;
         var times = Enumerable.Range(0, 50).Select(k => Math.Pow(largest * (double)largest / 4, k / 49.0)).ToArray();
         clock.Restart();
-        var exact = ExactPropagatorChoice.Choose(loaded.Rates, algebra, 0.0, initial, spectrum);
+        var exact = ExactPropagatorChoice.Choose(loaded.Rates, algebra, initial: initial, spectrum: spectrum);
         var trajectory = exact.Propagate(initial, times);
         var propagation = clock.Elapsed.TotalSeconds;
         output.WriteLine(string.Create(

@@ -117,7 +117,7 @@ public static class RunPhases
             var initial = new double[n];
             initial[n - 1] = 1;
             var times = Enumerable.Range(0, 101).Select(k => 2.0 * k / 100).ToArray();
-            var trajectory = Propagation.ExactPropagatorChoice.Choose(loaded.Rates, algebra, 0, initial, spectrum).Propagate(initial, times);
+            var trajectory = Propagation.ExactPropagatorChoice.Choose(loaded.Rates, algebra, initial: initial, spectrum: spectrum).Propagate(initial, times);
             var tPropagate = clock.Elapsed.TotalSeconds;
             var steady = Diagnostics.SteadyState.Compute(loaded.Rates, spectrum, initial, algebra);
             var tSteady = clock.Elapsed.TotalSeconds;

@@ -1,0 +1,171 @@
+using System.Globalization;
+using RateDeck.Cli.CommandLine;
+using RateDeck.Fitting;
+using RateDeck.Fitting.Outputs;
+using RateDeck.LinearAlgebra;
+using RateDeck.Outputs;
+using RateDeck.Text;
+
+namespace RateDeck.Cli.Verbs;
+
+/// <summary>
+/// <c>ratedeck fit DECK</c>: fits the free parameters of the deck's [fit] table to its data sets
+/// (docs/fitting.md) and writes the residuals, the correlation matrix, a plot and the fitted deck.
+/// Exit 0 when the fit converged, 6 when it did not (the report is still printed).
+/// </summary>
+public sealed class FitVerb : IVerb
+{
+    /// <inheritdoc />
+    public VerbSyntax Syntax { get; } = new("fit", "fit kT, parameters, rates or initial populations to measured time series; estimates with errors",
+    [
+        new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
+        new("--starts", "N", "number of starting points: the deck's values, then seeded random ones (default: fit.starts or 1)"),
+        new("--seed", "N", "seed of the random starting points (default: fit.seed or 1)"),
+        new("--profile", null, "add profile-likelihood intervals beside the standard errors"),
+    ]);
+
+    /// <inheritdoc />
+    public int Execute(ParsedArguments args, VerbContext context)
+    {
+        ILinearAlgebra algebra;
+        try
+        {
+            algebra = LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
+        }
+        catch (LinearAlgebraChoiceException e)
+        {
+            throw new UsageException(e.Message);
+        }
+
+        var options = new FitOptions(Whole(args, "--starts"), Whole(args, "--seed"), args.Has("--profile") ? true : null);
+        var outcome = Fitter.Fit(args.DeckPath, args.Overrides, algebra, options);
+        var folder = args.Value("--out") ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(args.DeckPath));
+        Directory.CreateDirectory(folder);
+        var files = new List<string> { "residuals.csv", "correlation.csv" };
+        FitFiles.WriteResiduals(Path.Combine(folder, files[0]), outcome);
+        FitFiles.WriteCorrelation(Path.Combine(folder, files[1]), outcome);
+        var report = outcome.Report;
+        if (args.Has("--json"))
+        {
+            JsonSummary.Write(context.Out, Json(outcome, algebra, folder, files));
+        }
+        else
+        {
+            WriteSummary(context.Out, outcome, algebra, folder, files);
+        }
+
+        return report.Converged ? ExitCodes.Success : ExitCodes.NotConverged;
+    }
+
+    private static int? Whole(ParsedArguments args, string option)
+    {
+        var text = args.Value(option);
+        if (text is null)
+        {
+            return null;
+        }
+
+        return int.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var value) && value >= (option == "--starts" ? 1 : 0)
+            ? value
+            : throw new UsageException($"{option} takes a whole number{(option == "--starts" ? " of 1 or more" : "")}, not '{text}'");
+    }
+
+    private static Dictionary<string, object?> Json(FitOutcome outcome, ILinearAlgebra algebra, string folder, List<string> files)
+    {
+        var report = outcome.Report;
+        var deck = outcome.Deck;
+        return new Dictionary<string, object?>
+        {
+            ["tool_version"] = ToolInfo.Version,
+            ["deck"] = deck.SourcePath,
+            ["deck_sha256"] = deck.Sha256,
+            ["overrides"] = deck.Overrides,
+            ["linear_algebra"] = algebra.Name,
+            ["converged"] = report.Converged,
+            ["stop_reason"] = StopText(report),
+            ["parameters"] = report.Parameters.ToDictionary(p => p.Name, p => new Dictionary<string, object?>
+            {
+                ["value"] = p.Value,
+                ["std_error"] = p.StandardError,
+                ["start"] = p.Start,
+                ["at_bound"] = p.Bound,
+                ["profile_lower"] = p.ProfileLower,
+                ["profile_upper"] = p.ProfileUpper,
+            }),
+            ["rss"] = report.Rss,
+            ["residual_sd"] = report.ResidualSd,
+            ["dof"] = report.Dof,
+            ["observations"] = report.Observations,
+            ["iterations"] = report.Best.Iterations,
+            ["function_evaluations"] = report.Best.ResidualEvaluations,
+            ["jacobian_evaluations"] = report.Best.JacobianEvaluations,
+            ["infeasible_trials"] = report.Best.InfeasibleTrials,
+            ["starts"] = report.Starts.Run,
+            ["starts_converged"] = report.Starts.Converged,
+            ["errors_from"] = report.ErrorSource,
+            ["correlation"] = Enumerable.Range(0, report.Parameters.Count).Select(a => Enumerable.Range(0, report.Parameters.Count).Select(b => report.Correlation[a, b]).ToArray()).ToArray(),
+            ["scaled_singular_values"] = report.ScaledSingularValues,
+            ["warnings"] = report.Warnings,
+            ["data_sets"] = outcome.Problem.DataSets.Select(d => new Dictionary<string, object?>
+            {
+                ["name"] = d.Spec.Name,
+                ["csv"] = d.Spec.CsvPath,
+                ["observations"] = d.Data.Count,
+                ["propagator"] = d.PropagatorPath,
+            }).ToArray(),
+            ["output_folder"] = folder,
+            ["files"] = files,
+        };
+    }
+
+    private static string StopText(Fitting.Report.FitReport report) => report.Best.Stop switch
+    {
+        Fitting.Optimization.StopReason.GradientOrthogonal => "gradient: every Jacobian column orthogonal to the residuals within 1e-8",
+        Fitting.Optimization.StopReason.StepSmall => "step: the last step changed no parameter by more than 1e-10 relative",
+        Fitting.Optimization.StopReason.RssChangeSmall => "rss: the last step changed the RSS by less than 1e-14 relative",
+        Fitting.Optimization.StopReason.ZeroResiduals => "zero residuals",
+        Fitting.Optimization.StopReason.IterationLimit => "not converged: iteration limit (fit.max_iterations)",
+        Fitting.Optimization.StopReason.NoDescent => "not converged: no step reduces the RSS (inaccurate derivatives, or every trial infeasible)",
+        _ => "not converged: the Jacobian could not be evaluated at an accepted point",
+    };
+
+    private static void WriteSummary(TextWriter output, FitOutcome outcome, ILinearAlgebra algebra, string folder, List<string> files)
+    {
+        var report = outcome.Report;
+        var deck = outcome.Deck;
+        output.WriteLine($"deck         {deck.SourcePath}  \"{deck.Title}\"  sha256 {deck.Sha256[..12]}");
+        if (deck.Overrides.Count > 0)
+        {
+            output.WriteLine($"overrides    {string.Join(" ", deck.Overrides)}");
+        }
+
+        foreach (var set in outcome.Problem.DataSets)
+        {
+            output.WriteLine($"data         {set.Spec.Name}: {set.Data.Count} values in {set.Data.Series.Count} column(s) of {set.Spec.CsvPath}; exact path {set.PropagatorPath} (kept for every trial), linear algebra {algebra.Name}");
+        }
+
+        output.WriteLine($"result       {(report.Converged ? "converged" : "NOT CONVERGED")}: {StopText(report)}");
+        output.WriteLine($"             {report.Best.Iterations} iterations, {report.Best.ResidualEvaluations} model evaluations, {report.Best.JacobianEvaluations} Jacobians; starts {report.Starts.Run} ({report.Starts.Converged} converged)");
+        output.WriteLine();
+        var width = Math.Max(10, report.Parameters.Max(p => p.Name.Length));
+        output.WriteLine($"  {"parameter".PadRight(width)}  {"estimate",-22} {"std error",-12} {"start",-12}{(report.Parameters.Any(p => p.ProfileLower is not null) ? " profile interval" : "")}");
+        foreach (var p in report.Parameters)
+        {
+            var interval = p.ProfileLower is { } lo && p.ProfileUpper is { } hi ? $" [{Format.Number(lo)}, {Format.Number(hi)}]" : "";
+            var bound = p.Bound is null ? "" : $" (at {p.Bound} bound)";
+            output.WriteLine($"  {p.Name.PadRight(width)}  {p.Value.ToString("R", CultureInfo.InvariantCulture),-22} {(double.IsNaN(p.StandardError) ? "not determined" : Format.Number(p.StandardError)),-12} {Format.Number(p.Start),-12}{interval}{bound}");
+        }
+
+        output.WriteLine();
+        output.WriteLine($"  RSS {Format.Number(report.Rss)}, residual sd {Format.Number(report.ResidualSd)}, dof {report.Dof} ({report.Observations} values - {report.Parameters.Count} parameters)");
+        output.WriteLine($"  standard errors from {report.ErrorSource}");
+        output.WriteLine($"  scaled singular values of the Jacobian: {string.Join(", ", report.ScaledSingularValues.Select(Format.Number))}");
+        foreach (var warning in report.Warnings)
+        {
+            output.WriteLine($"warning      {warning}");
+        }
+
+        output.WriteLine();
+        output.WriteLine($"wrote {files.Count} files to {folder}: {string.Join(", ", files)}");
+    }
+}
