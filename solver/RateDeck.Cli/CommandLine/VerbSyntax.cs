@@ -45,14 +45,21 @@ public sealed record VerbSyntax(string Verb, string Summary, IReadOnlyList<Optio
                 continue;
             }
 
-            var value = inline ?? (k + 1 < args.Count ? args[++k] : throw new UsageException($"{name} needs a value ({option.ValueName})"));
+            // A value is never taken from the next word when that word is an option: `--dt --exact-only`
+            // is a forgotten value, not a step named "--exact-only".
+            var value = inline ?? (k + 1 < args.Count && !known.ContainsKey(SplitInlineValue(args[k + 1]).Name) ? args[++k] : null);
+            if (string.IsNullOrEmpty(value))
+            {
+                throw new UsageException($"{name} needs a value ({option.ValueName})");
+            }
+
             if (name == "--set")
             {
                 overrides.Add(value);
             }
-            else
+            else if (!values.TryAdd(name, value))
             {
-                values[name] = value;
+                throw new UsageException($"{name} is given twice ('{values[name]}' and '{value}'); give it once");
             }
         }
 

@@ -23,18 +23,8 @@ public static partial class DeckReader
     /// <exception cref="DeckException">The file is missing or unreadable (span <c>SourceSpan.None(path)</c>), or the deck is invalid.</exception>
     public static Deck Read(string path, IReadOnlyList<string> overrides)
     {
-        byte[] bytes;
-        try
-        {
-            bytes = File.ReadAllBytes(path);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-        {
-            var reason = e is FileNotFoundException or DirectoryNotFoundException ? "there is no such file" : e.Message;
-            throw new DeckException(SourceSpan.None(path), $"cannot read the deck: {reason}");
-        }
-
-        var text = new UTF8Encoding(false, true).GetString(StripBom(bytes));
+        var bytes = InputFile.ReadAllBytes(path, reason => new DeckException(SourceSpan.None(path), $"cannot read the deck: {reason}"));
+        var text = InputFile.DecodeText(bytes, path);
         return Parse(text, Sha256(bytes), path, Path.GetDirectoryName(path) ?? "", overrides);
     }
 
@@ -56,9 +46,6 @@ public static partial class DeckReader
     }
 
     private static string Sha256(byte[] bytes) => Convert.ToHexStringLower(SHA256.HashData(bytes));
-
-    private static byte[] StripBom(byte[] bytes)
-        => bytes is [0xEF, 0xBB, 0xBF, ..] ? bytes[3..] : bytes;
 
     [GeneratedRegex("^[A-Za-z_][A-Za-z0-9_]*$")]
     private static partial Regex IdentifierPattern();
@@ -196,6 +183,11 @@ public static partial class DeckReader
                     throw new DeckException(entry.KeySpan, $"`{entry.Key}` is a variable of the expressions ({string.Join(", ", _reservedNames)}); give the parameter another name");
                 }
 
+                if (Expressions.ExpressionCompiler.IsReservedName(entry.Key))
+                {
+                    throw new DeckException(entry.KeySpan, $"`{entry.Key}` is a function or constant of the expressions; give the parameter another name");
+                }
+
                 var value = DeckSection.AsNumber(entry.Value, parameters.Qualified(entry.Key));
                 result[entry.Key] = new DeckParameter(entry.Key, value, entry.Value.Span);
             }
@@ -322,6 +314,11 @@ public static partial class DeckReader
             if (given.Trim().Length == 0)
             {
                 throw new DeckException(csv.ContentSpan, "`transfer.csv` is empty; name the rate file, like \"rates.csv\"");
+            }
+
+            if (given.Contains('\0', StringComparison.Ordinal))
+            {
+                throw new DeckException(csv.ContentSpan, "`transfer.csv` contains a NUL character (\\u0000); write the file name without it");
             }
 
             var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);

@@ -78,6 +78,11 @@ internal static class Overrides
         }
 
         var table = path[0];
+        if (DeckSchema.TopLevelKeys.Contains(table))
+        {
+            throw new DeckException(origin, $"`{table}` holds a value, not a table; set it as {table}=...");
+        }
+
         if (!DeckSchema.Tables.TryGetValue(table, out var keys))
         {
             throw new DeckException(origin, DeckSchema.UnknownTopLevel(table));

@@ -21,17 +21,9 @@ internal static class RateCsvReader
 
     public static IReadOnlyList<RateEntry> Read(string displayPath, string fullPath, SourceSpan reference, StateNames states, Rules rules)
     {
-        byte[] bytes;
-        try
-        {
-            bytes = File.ReadAllBytes(fullPath);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-        {
-            var reason = e is FileNotFoundException or DirectoryNotFoundException ? "no such file" : e.Message;
-            var looked = fullPath == displayPath ? "" : $"; looked for {fullPath}";
-            throw new DeckException(reference, $"cannot read the rate file {displayPath} ({reason}{looked})");
-        }
+        var looked = fullPath == displayPath ? "" : $"; looked for {fullPath}";
+        var bytes = InputFile.ReadAllBytes(fullPath, reason => new DeckException(reference, $"cannot read the rate file {displayPath} ({reason}{looked})"));
+        InputFile.CheckText(bytes, displayPath);
 
         var options = new CsvReaderOptions
         {

@@ -78,7 +78,7 @@ internal static class TomlTree
     /// <summary>Parses a deck; a TOML syntax or validation error becomes a <see cref="DeckException"/> at Tomlyn's position.</summary>
     public static TomlTableNode ParseDocument(string text, string path)
     {
-        var document = SyntaxParser.Parse(text, path, validate: true);
+        var document = ParseSyntax(text, path);
         var error = document.Diagnostics.FirstOrDefault(d => d.Kind == DiagnosticMessageKind.Error);
         if (error is not null)
         {
@@ -107,6 +107,77 @@ internal static class TomlTree
         return root;
     }
 
+    /// <summary>Tomlyn's limit of nested arrays and inline tables (it throws at this depth).</summary>
+    private const int _tomlynMaxDepth = 64;
+
+    /// <summary>
+    /// Tomlyn's syntax tree. Tomlyn stops at <see cref="_tomlynMaxDepth"/> nested arrays or inline
+    /// tables with an exception that carries no position; it becomes a located error like any
+    /// other syntax error, at the bracket that goes too deep.
+    /// </summary>
+    private static DocumentSyntax ParseSyntax(string text, string path)
+    {
+        try
+        {
+            return SyntaxParser.Parse(text, path, validate: true);
+        }
+        catch (Tomlyn.TomlException) when (DeepestBracket(text, _tomlynMaxDepth) is { } offset)
+        {
+            var before = text.AsSpan(0, offset);
+            var span = new SourceSpan(path, before.Count('\n') + 1, offset - before.LastIndexOf('\n'));
+            throw new DeckException(span, $"TOML syntax: arrays or inline tables nested {_tomlynMaxDepth} deep; a deck needs only a few levels");
+        }
+    }
+
+    /// <summary>
+    /// The offset of the first '[' or '{' that opens level <paramref name="depth"/>, skipping
+    /// strings and comments, or null. Table headers open and close on one line, so they never
+    /// reach a deep level.
+    /// </summary>
+    private static int? DeepestBracket(string text, int depth)
+    {
+        var level = 0;
+        for (var k = 0; k < text.Length; k++)
+        {
+            switch (text[k])
+            {
+                case '#':
+                    k = text.IndexOf('\n', k) is var end && end < 0 ? text.Length : end;
+                    break;
+                case '"' or '\'':
+                    k = EndOfString(text, k);
+                    break;
+                case '[' or '{' when ++level >= depth:
+                    return k;
+                case ']' or '}':
+                    level--;
+                    break;
+            }
+        }
+
+        return null;
+    }
+
+    /// <summary>The offset of the closing quote of the string opening at <paramref name="start"/> (one, or three quotes; escapes only in "...").</summary>
+    private static int EndOfString(string text, int start)
+    {
+        var quote = text[start];
+        var delimiter = text.AsSpan(start).StartsWith(new string(quote, 3)) ? new string(quote, 3) : quote.ToString();
+        for (var k = start + delimiter.Length; k < text.Length; k++)
+        {
+            if (quote == '"' && text[k] == '\\')
+            {
+                k++;
+            }
+            else if (text.AsSpan(k).StartsWith(delimiter))
+            {
+                return k + delimiter.Length - 1;
+            }
+        }
+
+        return text.Length;
+    }
+
     /// <summary>
     /// Parses the value of a <c>--set</c> override as TOML, every part placed at
     /// <paramref name="origin"/>. Text that is not a TOML value (a bare word such as
@@ -114,7 +185,16 @@ internal static class TomlTree
     /// </summary>
     public static TomlNode ParseOverrideValue(string valueText, SourceSpan origin)
     {
-        var document = SyntaxParser.Parse("v = " + valueText + "\n", "--set", validate: true);
+        DocumentSyntax document;
+        try
+        {
+            document = ParseSyntax("v = " + valueText + "\n", "--set");
+        }
+        catch (DeckException e)
+        {
+            throw new DeckException(origin, e.Problem);
+        }
+
         if (document.HasErrors || document.Tables.ChildrenCount != 0 || document.KeyValues.ChildrenCount != 1)
         {
             return new TomlScalar(valueText.Trim(), origin, origin);

@@ -12,6 +12,9 @@ internal abstract record ExpressionNode(int Offset)
 {
     /// <summary>The node as a System.Linq.Expressions tree reading variables from <paramref name="values"/>.</summary>
     public abstract Expression Emit(ParameterExpression values);
+
+    /// <summary>Nodes on the longest path from this one to a leaf (1 for a leaf): emitting and compiling recurse this deep.</summary>
+    public virtual int Depth => 1;
 }
 
 /// <summary>A number literal, a named constant or a folded constant subtree.</summary>
@@ -37,6 +40,9 @@ internal sealed record NegateNode(ExpressionNode Operand, int Offset) : Expressi
         => operand is NumberNode number ? new NumberNode(-number.Value, offset) : new NegateNode(operand, offset);
 
     /// <inheritdoc />
+    public override int Depth { get; } = Operand.Depth + 1;
+
+    /// <inheritdoc />
     public override Expression Emit(ParameterExpression values) => Expression.Negate(Operand.Emit(values));
 }
 
@@ -59,6 +65,9 @@ internal sealed record BinaryNode(BinaryOperator Operator, ExpressionNode Left, 
         => left is NumberNode a && right is NumberNode b
             ? new NumberNode(Apply(op, a.Value, b.Value), left.Offset)
             : new BinaryNode(op, left, right, left.Offset);
+
+    /// <inheritdoc />
+    public override int Depth { get; } = Math.Max(Left.Depth, Right.Depth) + 1;
 
     /// <inheritdoc />
     public override Expression Emit(ParameterExpression values)
@@ -126,6 +135,9 @@ internal sealed record CallNode(DeckFunction Function, IReadOnlyList<ExpressionN
         => arguments.All(a => a is NumberNode)
             ? new NumberNode(function.Apply(arguments.Select(a => ((NumberNode)a).Value).ToArray()), offset)
             : new CallNode(function, arguments, offset);
+
+    /// <inheritdoc />
+    public override int Depth { get; } = Arguments.Max(a => a.Depth) + 1;
 
     /// <inheritdoc />
     public override Expression Emit(ParameterExpression values)

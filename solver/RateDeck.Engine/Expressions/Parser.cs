@@ -20,6 +20,12 @@ internal sealed class Parser
     /// <summary>Deepest nesting of parentheses, signs and powers accepted, well inside the thread's stack.</summary>
     private const int _maxNesting = 256;
 
+    /// <summary>
+    /// Deepest tree accepted (a chain of 1000 terms a + b + ... is 1000 deep): compiling the tree
+    /// recurses once per level, so this bound keeps it well inside even a small thread stack.
+    /// </summary>
+    private const int _maxDepth = 1000;
+
     private const string _operand = "a number, a name or '('";
 
     private static readonly Dictionary<string, double> _constants = new(StringComparer.Ordinal)
@@ -85,8 +91,9 @@ internal sealed class Parser
         while (_current.Kind is TokenKind.Plus or TokenKind.Minus)
         {
             var op = _current.Kind == TokenKind.Plus ? BinaryOperator.Add : BinaryOperator.Subtract;
+            var at = _current.Offset;
             Advance();
-            left = BinaryNode.Make(op, left, ParseProduct());
+            left = Bounded(BinaryNode.Make(op, left, ParseProduct()), at);
         }
         return left;
     }
@@ -97,8 +104,9 @@ internal sealed class Parser
         while (_current.Kind is TokenKind.Star or TokenKind.Slash)
         {
             var op = _current.Kind == TokenKind.Star ? BinaryOperator.Multiply : BinaryOperator.Divide;
+            var at = _current.Offset;
             Advance();
-            left = BinaryNode.Make(op, left, ParseUnary());
+            left = Bounded(BinaryNode.Make(op, left, ParseUnary()), at);
         }
         return left;
     }
@@ -115,7 +123,7 @@ internal sealed class Parser
         {
             Advance();
             var operand = ParseUnary();
-            result = sign.Kind == TokenKind.Minus ? NegateNode.Make(operand, sign.Offset) : operand;
+            result = sign.Kind == TokenKind.Minus ? Bounded(NegateNode.Make(operand, sign.Offset), sign.Offset) : operand;
         }
         else
         {
@@ -125,6 +133,12 @@ internal sealed class Parser
         return result;
     }
 
+    /// <summary>The node, or a located error at the operator that makes the tree deeper than <see cref="_maxDepth"/>.</summary>
+    private ExpressionNode Bounded(ExpressionNode node, int operatorOffset)
+        => node.Depth <= _maxDepth
+            ? node
+            : throw _source.Error(operatorOffset, $"expression more than {_maxDepth} operations deep (a chain of terms counts one level each): split it, or simplify it");
+
     private ExpressionNode ParsePower()
     {
         var basis = ParsePrimary();
@@ -132,8 +146,9 @@ internal sealed class Parser
         {
             return basis;
         }
+        var at = _current.Offset;
         Advance();
-        return BinaryNode.Make(BinaryOperator.Power, basis, ParseUnary());
+        return Bounded(BinaryNode.Make(BinaryOperator.Power, basis, ParseUnary()), at);
     }
 
     private ExpressionNode ParsePrimary()
@@ -191,7 +206,7 @@ internal sealed class Parser
         {
             throw _source.Error(name.Offset, $"'{name.Text}' {function.DescribeArity()}, got {arguments.Count}");
         }
-        return CallNode.Make(function, arguments, name.Offset);
+        return Bounded(CallNode.Make(function, arguments, name.Offset), name.Offset);
     }
 
     private ExpressionNode ResolveName(Token name)

@@ -183,16 +183,17 @@ internal static class OrbitQuadrature
             var rising = r < 0;
             for (var step = 0; (r < 0) == rising; step++)
             {
-                // Halving ends (h tends to U(q) < E as v goes to 0); doubling ends unless h is bounded in v.
-                if (step == _maxSteps)
+                (previous, previousResidual) = (v, r);
+                v *= rising ? 2 : 0.5;
+                // Halving ends (h tends to U(q) < E as v goes to 0); doubling ends unless h is bounded
+                // in v, as when L does not depend on v or is not convex in it: v then overflows.
+                if (step == _maxSteps || !double.IsFinite(v))
                 {
                     throw new MechanicsException(
-                        FormattableString.Invariant($"at energy E = {energy} (state {stateIndex + 1}) no velocity reaches the energy at q = {q}: v dL/dv - L must grow without bound in |v| (L convex in v)"),
+                        FormattableString.Invariant($"at energy E = {energy} (state {stateIndex + 1}) no velocity reaches the energy at q = {q}: v dL/dv - L must grow without bound in |v| (L must depend on v and be convex in it, like 0.5*m*v^2 - U(q))"),
                         stateIndex);
                 }
 
-                (previous, previousResidual) = (v, r);
-                v *= rising ? 2 : 0.5;
                 r = Residual(v);
             }
 

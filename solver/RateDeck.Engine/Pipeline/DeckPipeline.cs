@@ -25,6 +25,13 @@ public static class DeckPipeline
         var mechanics = new MechanicsStage();
         var states = StateSpaceBuilder.Build(deck, mechanics.DeriveWeights);
         var rates = RateMatrixAssembler.Assemble(deck, states);
+        // P(0) is part of the deck: every verb refuses a bad one, not only those that propagate.
+        var initial = RunSetup.InitialPopulations(deck, states);
+        if (!initial.Any(p => p > 0) && !rates.Pumping.Any(s => s > 0))
+        {
+            throw new DeckException(deck.Initial.Span, "every initial population is 0 and nothing is pumped in, so every population stays 0; give a state, or populations above 0");
+        }
+
         return new LoadedDeck(deck, states, rates, algebra) { Mechanics = mechanics.Result };
     }
 }
