@@ -152,9 +152,7 @@ public sealed partial class DataSetModel
     private void ChoosePath(Deck deck)
     {
         var (rates, initial) = Assemble(deck);
-        var balance = rates.Origin == BalanceOrigin.TakenAsGiven ? DetailedBalance.Analyze(rates) : null;
-        var violation = balance is null ? 0 : balance.OneWayCount > 0 ? double.NaN : balance.CycleViolation ?? balance.PairViolation;
-        var chosen = ExactPropagatorChoice.Choose(rates, _algebra, violation, initial);
+        var chosen = ExactPropagatorChoice.Choose(rates, _algebra, DetailedBalance.Analyze(rates), initial);
         PropagatorPath = chosen.Name;
         PropagatorReason = chosen.Reason;
     }

@@ -86,7 +86,7 @@ public sealed class StiffnessVerb : IVerb
         output.WriteLine($"  max |K_ii|               {Format.Number(report.MaxDiagonalRate)}");
         if (spectrum.Unresolved is { } unresolved)
         {
-            output.WriteLine($"  NOT RESOLVED             {unresolved}; the slow rates above are not to be trusted, and run takes the implicit integrator");
+            output.WriteLine($"  NOT RESOLVED             {unresolved}; the slow rates above are not to be trusted (run takes an accurate path and names it on its exact line)");
         }
         output.WriteLine();
         var horizon = report.Horizon is { } h ? $"steps to t = {Format.Number(h)}{(report.HorizonIsEndTime ? "" : " (1/slowest rate)")}" : "steps";

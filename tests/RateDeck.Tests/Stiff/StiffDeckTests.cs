@@ -34,7 +34,7 @@ public class StiffDeckTests
         var (loaded, fixture) = Load(deck);
         var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
         var initial = RunSetup.InitialPopulations(loaded.Deck, loaded.States);
-        var propagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, 0, initial, spectrum, loaded.Deck.Run.EndTime);
+        var propagator = ExactPropagatorChoice.Choose(loaded.Rates, loaded.Algebra, null, initial, spectrum, loaded.Deck.Run.EndTime);
 
         var trajectory = propagator.Propagate(initial, [0, .. fixture.Times]);
 

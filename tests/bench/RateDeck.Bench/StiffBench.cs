@@ -62,7 +62,8 @@ public static class StiffBench
             {
                 var decomposition = ExtendedSymmetricEigen.Decompose(rates.Count, Rates.SymmetrizedGenerator.BuildExtended(rates));
                 new ExtendedEigenPropagator(rates, decomposition, 0).Propagate(initial, times);
-            }));
+            }
+            ));
         }
 
         var seconds = Timing.Measure([.. contenders.Select(c => c.Work)], warmups: 1, runs);
