@@ -1,6 +1,5 @@
 using System.Text.RegularExpressions;
 using RateDeck.Decks;
-using RateDeck.Diagnostics;
 using RateDeck.Fitting.Data;
 using RateDeck.Fitting.Setup;
 using RateDeck.LinearAlgebra;
@@ -152,7 +151,7 @@ public sealed partial class DataSetModel
     private void ChoosePath(Deck deck)
     {
         var (rates, initial) = Assemble(deck);
-        var chosen = ExactPropagatorChoice.Choose(rates, _algebra, DetailedBalance.Analyze(rates), initial);
+        var chosen = ExactPropagatorChoice.Choose(rates, _algebra, initial: initial);
         PropagatorPath = chosen.Name;
         PropagatorReason = chosen.Reason;
     }

@@ -18,13 +18,14 @@ public sealed class RunVerb : IVerb
     /// <inheritdoc />
     public VerbSyntax Syntax { get; } = new("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, plots",
     [
-        new("--dt", "X|auto", "explicit time step (default: the deck's run.dt; auto = run.safety x the stability limit)"),
+        new("--dt", "X|auto", "explicit time step (default: the deck's run.dt; auto = the step whose estimated error meets run.accuracy, at most run.safety x the stability limit)"),
         new("--method", "euler|rk4", "explicit method (default: the deck's run.explicit)"),
         new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
         new("--exact-only", null, "skip the explicit method"),
         new("--exact", "auto|implicit|extended", "exact path: auto (default: chosen from the spectrum, reason printed), the implicit integrator, or the double-double eigen path"),
         new("--implicit", null, "also run the implicit integrator beside explicit and exact, and compare it with exact"),
         new("--allow-unstable", null, "run an explicit step above the stability limit anyway, to see it fail"),
+        new("--require-accuracy", null, "exit 4 when explicit and exact differ by more than run.accuracy of the total"),
         new("--no-plots", null, "write no PNG plots"),
     ]);
 
@@ -90,6 +91,10 @@ public sealed class RunVerb : IVerb
             fields["implicit_vs_exact_max_rel_difference"] = run.ImplicitDifference?.MaxRelative;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
+            fields["dt_chosen_for_accuracy"] = run.AccurateStep is not null;
+            fields["dt_error_estimate"] = run.AccurateStep?.EstimatedError;
+            fields["accuracy_target"] = loaded.Deck.Run.Accuracy;
+            fields["accuracy_met"] = run.AccuracyMet;
             fields["max_abs_difference"] = difference?.MaxAbsolute;
             fields["max_rel_difference"] = difference?.MaxRelative;
             fields["max_difference_relative_to_total"] = difference?.MaxRelativeToTotal;
@@ -114,6 +119,7 @@ public sealed class RunVerb : IVerb
             if (run.ExplicitPropagator is { } explicitPropagator)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
+                context.Out.WriteLine($"             {run.AccurateStep?.Reason ?? "dt as given, not chosen for accuracy"}");
             }
             else if (run.ExplicitDeclined is { } declined)
             {
@@ -132,8 +138,19 @@ public sealed class RunVerb : IVerb
                 context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Number(versus.WorstTime)}, state {loaded.States.Labels[versus.WorstState]})");
             }
 
+            if (run.AccuracyMet == false)
+            {
+                context.Out.WriteLine($"  ACCURACY: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above the accuracy target {Format.Number(loaded.Deck.Run.Accuracy)} (run.accuracy); trust the exact result{(run.AccurateStep is null ? ", or let dt = auto choose the step" : "")}");
+            }
+
             context.Out.WriteLine();
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
+        }
+
+        if (run.AccuracyMet == false && args.Has("--require-accuracy"))
+        {
+            context.Error.WriteLine($"ratedeck run: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above run.accuracy = {Format.Number(loaded.Deck.Run.Accuracy)} (--require-accuracy)");
+            return ExitCodes.CheckFailed;
         }
 
         return ExitCodes.Success;

@@ -208,7 +208,17 @@ public sealed record RunSpec(
     double? Dt,
     double SafetyFactor,
     IReadOnlyList<int> PlotStates,
-    SourceSpan Span);
+    SourceSpan Span)
+{
+    /// <summary>
+    /// run.accuracy: the largest |explicit - exact| over the total population an automatic step
+    /// is chosen to meet, and above which a run says the explicit result misses (default 1e-3).
+    /// </summary>
+    public double Accuracy { get; init; } = DefaultAccuracy;
+
+    /// <summary>The default of <see cref="Accuracy"/>: 1e-3 of the total population, a plot's resolution.</summary>
+    public const double DefaultAccuracy = 1e-3;
+}
 
 /// <summary>
 /// A one-degree-of-freedom Lagrangian L(q, v) (variables <c>q</c>, <c>v</c>, <c>kT</c> and the

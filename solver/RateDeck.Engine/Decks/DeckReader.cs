@@ -440,10 +440,20 @@ public static partial class DeckReader
                 }
             }
 
+            var accuracy = RunSpec.DefaultAccuracy;
+            if (run.Entry("accuracy") is { } accuracyEntry)
+            {
+                accuracy = DeckSection.AsNumber(accuracyEntry.Value, "run.accuracy");
+                if (!(accuracy > 0 && accuracy < 1))
+                {
+                    throw new DeckException(accuracyEntry.Value.Span, $"`run.accuracy` is the largest explicit-minus-exact difference allowed, as a fraction of the total population, and must be in (0, 1), not {DeckSection.Format(accuracy)}");
+                }
+            }
+
             var plotStates = run.Array("plot_states") is { } plots
                 ? plots.Items.Select(item => _states.Resolve(item, "run.plot_states")).ToArray()
                 : [];
-            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span);
+            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span) { Accuracy = accuracy };
         }
 
         private static double? ReadDt(DeckSection run)

@@ -30,6 +30,8 @@ public sealed class DeckRun
     private SteadyStateResult? _steady;
     private ImplicitSdirkPropagator? _implicitPropagator;
     private Trajectory? _implicit;
+    private AccurateStep? _accurate;
+    private bool _accurateChosen;
 
     /// <summary>Prepares the stages of <paramref name="loaded"/>; nothing is computed yet.</summary>
     public DeckRun(LoadedDeck loaded, RunOptions? options = null)
@@ -67,8 +69,39 @@ public sealed class DeckRun
     /// <summary>The stability limit of <see cref="Method"/>.</summary>
     public double StabilityLimit => Method == ExplicitMethod.Euler ? StepLimits.EulerStable.MaxStep : StepLimits.Rk4Stable.MaxStep;
 
-    /// <summary>The explicit step: <see cref="RunOptions.Dt"/>, else the deck's run.dt (unless <see cref="RunOptions.AutomaticDt"/>), else the safety factor times <see cref="StabilityLimit"/>.</summary>
-    public double ExplicitStep => Options.Dt ?? (Options.AutomaticDt ? null : Loaded.Deck.Run.Dt) ?? (Loaded.Deck.Run.SafetyFactor * StabilityLimit);
+    /// <summary>True when the step is automatic: no <see cref="RunOptions.Dt"/>, and <see cref="RunOptions.AutomaticDt"/> or no run.dt in the deck.</summary>
+    public bool StepIsAutomatic => Options.Dt is null && (Options.AutomaticDt || Loaded.Deck.Run.Dt is null);
+
+    /// <summary>The hard cap of an automatic step: run.safety times the stability limit, and for Euler also the positivity limit.</summary>
+    public double StepCap => Method == ExplicitMethod.Euler
+        ? Math.Min(Loaded.Deck.Run.SafetyFactor * StepLimits.EulerStable.MaxStep, StepLimits.Positivity.MaxStep)
+        : Loaded.Deck.Run.SafetyFactor * StepLimits.Rk4Stable.MaxStep;
+
+    /// <summary>
+    /// The automatic step chosen by step doubling for the deck's run.accuracy, at most
+    /// <see cref="StepCap"/>; null when the step is given or there is no explicit run.
+    /// </summary>
+    public AccurateStep? AccurateStep
+    {
+        get
+        {
+            if (!_accurateChosen)
+            {
+                _accurate = StepIsAutomatic && !Options.ExactOnly
+                    ? AccurateStepChoice.Choose(Loaded.Rates, Method, Initial, Times, StepCap, Loaded.Deck.Run.Accuracy)
+                    : null;
+                _accurateChosen = true;
+            }
+
+            return _accurate;
+        }
+    }
+
+    /// <summary>The explicit step: <see cref="RunOptions.Dt"/>, else the deck's run.dt (unless <see cref="RunOptions.AutomaticDt"/>), else the step chosen for accuracy (<see cref="AccurateStep"/>), else <see cref="StepCap"/>.</summary>
+    public double ExplicitStep => Options.Dt ?? (Options.AutomaticDt ? null : Loaded.Deck.Run.Dt) ?? AccurateStep?.Dt ?? StepCap;
+
+    /// <summary>Whether explicit and exact agree within the deck's run.accuracy (of the total); null with <see cref="RunOptions.ExactOnly"/>.</summary>
+    public bool? AccuracyMet => Difference is { } difference ? difference.MaxRelativeToTotal <= Loaded.Deck.Run.Accuracy : null;
 
     /// <summary>
     /// Whether <see cref="ExplicitStep"/> can be trusted with <see cref="Method"/>: within the
