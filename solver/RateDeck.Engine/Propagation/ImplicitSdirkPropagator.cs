@@ -28,7 +28,8 @@ namespace RateDeck.Propagation;
 /// rtol = <see cref="RelativeTolerance"/> and atol = <see cref="AbsoluteTolerance"/> times the
 /// population scale (sum |P(0)| + t_end sum s), so every population above about 1e-12 of the total
 /// is controlled relative to itself; the step grows or shrinks by 0.9 err^(-1/4) within [0.2, 4],
-/// and is kept (with its factorization) when the proposed change is within [1, 1.5].
+/// and is kept (with its factorization) when the proposed change is within [1, 1.5]; a step
+/// clipped to land on an output time keeps the running step's factorization for the next step.
 /// </para>
 /// </summary>
 public sealed class ImplicitSdirkPropagator : IPropagator
@@ -118,8 +119,9 @@ public sealed class ImplicitSdirkPropagator : IPropagator
 
         var stage = new double[_n];
         var candidate = new double[_n];
-        MMatrixFactorization? factors = null;
-        var factoredStep = double.NaN;
+        // Two factorizations are kept: the running step's and the last clipped one's, so that a step
+        // clipped to reach an output time does not cost the running step its factorization.
+        var cache = new (double Step, MMatrixFactorization? Factors)[] { (double.NaN, null), (double.NaN, null) };
         for (var k = 0; k < times.Count; k++)
         {
             while (t < times[k])
@@ -131,14 +133,15 @@ public sealed class ImplicitSdirkPropagator : IPropagator
                     step = remaining;
                 }
 
-                if (step != factoredStep)
+                var slot = step == cache[0].Step ? 0 : step == cache[1].Step ? 1 : -1;
+                if (slot < 0)
                 {
-                    factors = Factor(step);
-                    factoredStep = step;
+                    slot = step < h ? 1 : 0;
+                    cache[slot] = (step, Factor(step));
                     Factorizations++;
                 }
 
-                var error = TryStep(factors!, step, y, stages, stage, candidate, atol);
+                var error = TryStep(cache[slot].Factors!, step, y, stages, stage, candidate, atol);
                 if (error <= 1)
                 {
                     (y, candidate) = (candidate, y);
