@@ -21,8 +21,8 @@ internal static class TrialBench
 
     public static void Run(int runs, TextWriter output)
     {
-        var algebra = LinearAlgebraProviders.Default;
-        output.WriteLine($"one trial = kT changed, assemble, exact propagation to the deck's output times; linear algebra: {LinearAlgebraProviders.DefaultReason}");
+        var algebra = LinearAlgebraProviders.Select(null, out var algebraReason);
+        output.WriteLine($"one trial = kT changed, assemble, exact propagation to the deck's output times; linear algebra: {algebraReason}");
         output.WriteLine("deck                   outputs  read again with --set (ms)   derived with Deck.With (ms)   path");
         foreach (var name in _decks)
         {
