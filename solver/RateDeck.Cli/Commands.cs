@@ -47,7 +47,7 @@ public static class Commands
             stderr.WriteLine(e.Message);
             return ExitCodes.BadInput;
         }
-        catch (Rates.DenseStorageException e)
+        catch (LinearAlgebra.DenseStorageException e)
         {
             stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
             return ExitCodes.BadInput;

@@ -57,7 +57,7 @@ internal static class RateCsvReader
         var header = ReadHeader(reader, file);
         // One row a line: the line count bounds the rows, so the table is sized once.
         var entries = new RateEntryTable(file.Path, file.LineCount);
-        var given = new Rates.PairSet(states.Count);
+        var given = new PairSet(states.Count);
         var (fromColumn, toColumn, rateColumn) = (header["from"], header["to"], header["rate"]);
         while (reader.Read())
         {

@@ -1,4 +1,5 @@
 using RateDeck.Decks;
+using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
 using RateDeck.Text;
 
@@ -37,7 +38,7 @@ public sealed record LargeCompletedRate(string From, string To, double Rate, dou
 public static class LargeCompletedRates
 {
     /// <summary>ln(1/eps) = 36.04: a completed rate more than this many e-folds above its given partner is flagged.</summary>
-    public static readonly double LogThreshold = -Math.Log(Spectrum.MachineEpsilon);
+    public static readonly double LogThreshold = -Math.Log(Precision.MachineEpsilon);
 
     /// <summary>How many pairs a report lists (the largest factors first); all are counted.</summary>
     public const int Listed = 5;
@@ -89,7 +90,7 @@ public static class LargeCompletedRates
             return null;
         }
 
-        return $"{Format.Count(count, "completed rate exceeds", "completed rates exceed")} the given rate of its pair by more than 1/eps = {Format.Number(1 / Spectrum.MachineEpsilon)}: "
+        return $"{Format.Count(count, "completed rate exceeds", "completed rates exceed")} the given rate of its pair by more than 1/eps = {Format.Number(1 / Precision.MachineEpsilon)}: "
             + string.Join("; ", listed.Select(f => f.Describe(timeUnit))) + (count > listed.Count ? "; ..." : "")
             + ". Beside such a rate the given rates and the slow modes they set are below the spectrum's resolution (about eps x the largest rate), "
             + "so null-space and slow-rate figures are rounding; give the rates in the other direction (downhill) or check the energies, weights and kT";

@@ -57,7 +57,7 @@ public static class MatrixChecks
         };
 
         var (conservation, worstColumn) = ConservationError(rates);
-        var conservationTolerance = ConservationToleranceFactor * n * Spectrum.MachineEpsilon;
+        var conservationTolerance = ConservationToleranceFactor * n * Precision.MachineEpsilon;
         checks.Add(new("conservation", conservation <= conservationTolerance, $"max over columns of |sum_i K_ij + loss_j| is {Format.Number(conservation)} of max|K_jj|{(worstColumn is null ? "" : $" (column of {labels[worstColumn.Value]})")}; tolerance {Format.Number(conservationTolerance)}"));
 
         var (negativeCount, worstNegative) = NegativeOffDiagonals(rates);

@@ -17,31 +17,17 @@ public enum SpectrumPath
 /// <summary>
 /// The eigenvalues of K, computed once, with the facts every later stage asks for: spectral
 /// radius, null space, slowest decay and the path taken.
-/// <para>
-/// Zero tolerance: an eigenvalue counts as zero when |lambda| &lt;= <see cref="ZeroToleranceFactor"/>
-/// * N * eps * rho. A backward-stable eigen-solver returns the exact eigenvalues of K + E with
-/// ||E|| of order p(N) eps ||K|| for a modest polynomial p (Golub and Van Loan, Matrix Computations,
-/// 4th ed., sec. 7.5.6 and 8.3, from memory); on the symmetric path ||S||_2 = rho and Weyl's
-/// theorem bounds every eigenvalue's shift by ||E||_2. The zero eigenvalue of a generator is well
-/// conditioned (its left eigenvector is the vector of ones, condition at most sqrt N). Taking
-/// p(N) = 100 N leaves two decades of margin; a mode slower than this tolerance cannot be told from
-/// zero at working precision, and the null space then counts it.
-/// </para>
+/// Zero tolerance: <see cref="Precision.ZeroEigenvalueTolerance"/> (a mode slower than it cannot be
+/// told from zero at working precision, and the null space then counts it).
 /// </summary>
 public sealed class Spectrum
 {
-    /// <summary>The zero tolerance is this factor times N times machine epsilon times rho.</summary>
-    public const double ZeroToleranceFactor = 100;
-
     /// <summary>
     /// A closed class carries a null vector when some null-space basis vector has at least this
     /// squared 2-norm on the class (of 1 in total). An orthonormal basis of m null vectors gives
     /// each loss-free class at least 1/m; a leaking class gets only rounding, of order eps^2.
     /// </summary>
     public const double NullWeightFloor = 1e-6;
-
-    /// <summary>Machine epsilon of double, 2^-52.</summary>
-    public const double MachineEpsilon = 2.220446049250313e-16;
 
     /// <summary>Inverse-iteration steps for a null vector of a sparse S (see <see cref="ComputeBand"/>).</summary>
     private const int _inverseIterations = 8;
@@ -60,7 +46,7 @@ public sealed class Spectrum
         Values = [.. raw.OrderBy(v => v.Real).ThenBy(v => v.Imaginary)];
         Eigenvalues = [.. Values.Select(v => v.Real)];
         SpectralRadius = raw.Length == 0 ? 0 : raw.Max(Complex.Abs);
-        ZeroTolerance = ZeroToleranceFactor * raw.Length * MachineEpsilon * SpectralRadius;
+        ZeroTolerance = Precision.ZeroEigenvalueTolerance(SpectralRadius, raw.Length);
         var nullColumns = Enumerable.Range(0, raw.Length).Where(c => Complex.Abs(raw[c]) <= ZeroTolerance).ToList();
         _nullDimension = nullColumns.Count;
         _nullBasis = nullBasis ?? [.. nullColumns.Select(c => RealNullVector(symmetric, general, c))];
@@ -85,7 +71,7 @@ public sealed class Spectrum
     /// <summary>rho = max |lambda|.</summary>
     public double SpectralRadius { get; }
 
-    /// <summary>Eigenvalues with |lambda| at or below this count as zero: <see cref="ZeroToleranceFactor"/> * N * eps * rho.</summary>
+    /// <summary>Eigenvalues with |lambda| at or below this count as zero: <see cref="Precision.ZeroEigenvalueTolerance"/>.</summary>
     public double ZeroTolerance { get; }
 
     /// <summary>Number of zero eigenvalues within <see cref="ZeroTolerance"/>.</summary>
@@ -141,9 +127,9 @@ public sealed class Spectrum
             return ComputeBand(rates, algebra, reason);
         }
 
-        // S is built only to be decomposed, so the native solver may work in its storage (one N x N copy fewer).
+        // S is built only to be decomposed, so the provider may work in its storage.
         var built = SymmetrizedGenerator.Build(rates);
-        var symmetric = algebra is OpenBlasLinearAlgebra native ? native.SymmetricEigenOverwriting(built) : algebra.SymmetricEigen(built);
+        var symmetric = algebra.SymmetricEigenOverwriting(built);
         return new Spectrum(rates, SpectrumPath.Symmetrized, reason, [.. symmetric.Values.Select(v => new Complex(v, 0))], symmetric, null);
     }
 
@@ -161,9 +147,9 @@ public sealed class Spectrum
     private static Spectrum ComputeBand(RateMatrix rates, ILinearAlgebra algebra, string reason)
     {
         var band = SymmetrizedGenerator.BuildBand(rates);
-        var values = BandEigenvalues.Compute(band, algebra, out var method);
+        var values = algebra.SymmetricBandEigenvalues(band, out var method);
         var rho = values.Length == 0 ? 0.0 : Math.Max(Math.Abs(values[0]), Math.Abs(values[^1]));
-        var tolerance = ZeroToleranceFactor * values.Length * MachineEpsilon * rho;
+        var tolerance = Precision.ZeroEigenvalueTolerance(rho, values.Length);
         var basis = new List<double[]>();
         foreach (var closedClass in TransitionGraph.Classify(rates).Closed)
         {
@@ -207,7 +193,7 @@ public sealed class Spectrum
         }
 
         // (sigma I - S) x = u: the solver forms z I - t S, here with z = sigma and t = 1.
-        var solver = new Propagation.ComplexBandSolver(block, 1);
+        var solver = new ComplexBandSolver(block, 1);
         var u = Enumerable.Repeat(1.0 / Math.Sqrt(m), m).ToArray();
         for (var step = 0; step < _inverseIterations; step++)
         {

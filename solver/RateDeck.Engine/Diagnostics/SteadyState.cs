@@ -1,6 +1,7 @@
 using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.States;
 using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
@@ -196,7 +197,7 @@ public static class SteadyState
 
     /// <summary>
     /// x = -K_UU^(-1) s_U for a sparse K under detailed balance, without a dense matrix: in the
-    /// symmetrized variables y = D^(-1/2) x (scaled as in <see cref="Propagation.EquilibriumScaling"/>)
+    /// symmetrized variables y = D^(-1/2) x (scaled as in <see cref="EquilibriumScaling"/>)
     /// the system is S_UU y = -D^(-1/2) s_U, a symmetric band system solved by partially pivoted
     /// elimination in O(N b^2).
     /// </summary>
@@ -213,7 +214,7 @@ public static class SteadyState
             }
         }
 
-        var scaling = new Propagation.EquilibriumScaling(rates.States.LogEquilibrium);
+        var scaling = new EquilibriumScaling(rates.States.LogEquilibrium);
         var source = new double[rates.Count];
         foreach (var i in leaking)
         {
@@ -221,7 +222,7 @@ public static class SteadyState
         }
 
         var (scaled, logScale) = scaling.Scale(source);
-        var solver = new Propagation.ComplexBandSolver(new SymmetricBand(leaking.Length, b, local), 1);
+        var solver = new ComplexBandSolver(new SymmetricBand(leaking.Length, b, local), 1);
         try
         {
             // The solver forms z I - t S: z = 0 and t = -1 give S_UU itself.

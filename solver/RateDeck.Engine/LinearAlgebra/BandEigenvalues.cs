@@ -1,41 +1,33 @@
-using RateDeck.Rates;
 
 namespace RateDeck.LinearAlgebra;
 
 /// <summary>
-/// All eigenvalues of a symmetric band matrix (the symmetrized generator of a sparse deck) without
-/// eigenvectors, in O(N) or O(N b) memory. Native provider: dsterf_ for a tridiagonal matrix,
-/// dsbev_ for a wider band. Managed provider: the implicit QL iteration below for a tridiagonal
-/// matrix; a wider band is expanded to dense (N^2 memory, refused above
-/// <see cref="RateMatrix.DenseStateLimit"/> states).
+/// The managed provider's eigenvalues of a symmetric band matrix (the symmetrized generator of a
+/// sparse deck) without eigenvectors: the implicit QL iteration below for a tridiagonal matrix,
+/// O(N) memory; a wider band is expanded to dense (N^2 memory, refused above
+/// <see cref="DenseStorage.StateLimit"/> states). The native provider uses dsterf_ and dsbev_.
 /// </summary>
 public static class BandEigenvalues
 {
     /// <summary>A QL sweep count per eigenvalue beyond which the managed iteration gives up (it needs about 2).</summary>
     private const int _maxSweepsPerValue = 60;
 
-    /// <summary>Eigenvalues of <paramref name="band"/>, ascending; <paramref name="method"/> names the routine used.</summary>
-    /// <exception cref="DenseStorageException">Managed provider, band wider than 1, and more than <see cref="RateMatrix.DenseStateLimit"/> states.</exception>
-    public static double[] Compute(SymmetricBand band, ILinearAlgebra algebra, out string method)
+    /// <summary>Eigenvalues of <paramref name="band"/>, ascending, with <paramref name="algebra"/>'s dense solver for a wide band; <paramref name="method"/> names the routine used.</summary>
+    /// <exception cref="DenseStorageException">Band wider than 1 and more than <see cref="DenseStorage.StateLimit"/> states.</exception>
+    internal static double[] Managed(SymmetricBand band, ILinearAlgebra algebra, out string method)
     {
         ArgumentNullException.ThrowIfNull(band);
         ArgumentNullException.ThrowIfNull(algebra);
-        if (algebra is OpenBlasLinearAlgebra native)
-        {
-            method = band.Bandwidth <= 1 ? "dsterf_ (tridiagonal QL/QR)" : "dsbev_ (band to tridiagonal, then QL/QR)";
-            return band.Bandwidth <= 1 ? native.TridiagonalEigenvalues(band.Diagonal(), band.SubDiagonal()) : native.BandEigenvalues(band);
-        }
-
         if (band.Bandwidth <= 1)
         {
             method = "managed implicit QL (tridiagonal)";
             return Tridiagonal(band.Diagonal(), band.SubDiagonal());
         }
 
-        if (band.Count > RateMatrix.DenseStateLimit)
+        if (band.Count > DenseStorage.StateLimit)
         {
             throw new DenseStorageException(
-                $"the eigenvalues of a {band.Count}-state band matrix of bandwidth {band.Bandwidth} need the native library (dsbev_) or a dense {band.Count} x {band.Count} array, beyond the {RateMatrix.DenseStateLimit}-state limit; install OpenBLAS (Debian package libopenblas0)");
+                $"the eigenvalues of a {band.Count}-state band matrix of bandwidth {band.Bandwidth} need the native library (dsbev_) or a dense {band.Count} x {band.Count} array, beyond the {DenseStorage.StateLimit}-state limit; install OpenBLAS (Debian package libopenblas0)");
         }
 
         method = $"managed dense symmetric eigen-solver (bandwidth {band.Bandwidth}: no managed band reduction)";
@@ -64,7 +56,7 @@ public static class BandEigenvalues
             for (var sweep = 0; ; sweep++)
             {
                 var m = l;
-                while (m < n - 1 && Math.Abs(e[m]) > double.Epsilon + (2.220446049250313e-16 * (Math.Abs(d[m]) + Math.Abs(d[m + 1]))))
+                while (m < n - 1 && Math.Abs(e[m]) > double.Epsilon + (Precision.MachineEpsilon * (Math.Abs(d[m]) + Math.Abs(d[m + 1]))))
                 {
                     m++;
                 }

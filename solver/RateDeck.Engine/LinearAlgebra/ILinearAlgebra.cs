@@ -7,7 +7,7 @@ namespace RateDeck.LinearAlgebra;
 /// The dense linear algebra the pipeline needs, behind one boundary so that the managed
 /// implementation and a native LAPACK/BLAS one can be swapped. Both must give the same answers
 /// to rounding. Matrices are MathNet dense matrices (column-major storage, as LAPACK expects).
-/// Inputs are never modified.
+/// Inputs are never modified, except by <see cref="SymmetricEigenOverwriting"/>.
 /// </summary>
 public interface ILinearAlgebra
 {
@@ -19,6 +19,19 @@ public interface ILinearAlgebra
     /// Each eigenvector's sign is arbitrary, and within a repeated eigenvalue only the eigenspace is determined.
     /// </summary>
     SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric);
+
+    /// <summary>
+    /// As <see cref="SymmetricEigen"/> for a matrix built only to be decomposed: the provider may
+    /// work in its storage, which is then undefined (one N x N copy fewer where it can).
+    /// </summary>
+    SymmetricEigenDecomposition SymmetricEigenOverwriting(DenseMatrix symmetric);
+
+    /// <summary>
+    /// All eigenvalues, ascending, of a symmetric band matrix without eigenvectors, in O(N) or
+    /// O(N b) memory where the provider can; <paramref name="method"/> names the routine used.
+    /// </summary>
+    /// <exception cref="DenseStorageException">The provider needs a dense copy above <see cref="DenseStorage.StateLimit"/> states.</exception>
+    double[] SymmetricBandEigenvalues(SymmetricBand band, out string method);
 
     /// <summary>
     /// Eigenvalues and right eigenvectors of a general real matrix, sorted by ascending real part, then

@@ -11,18 +11,6 @@ public static class LinearAlgebraProviders
     /// <summary>The environment variable read when no explicit choice is given.</summary>
     public const string EnvironmentVariable = "RATEDECK_LINALG";
 
-    private static readonly Lazy<(ILinearAlgebra Provider, string Reason)> _default =
-        new(() => (Select(null, out var reason), reason));
-
-    /// <summary>
-    /// The provider the pipeline uses when nothing else is asked: <see cref="Select(string?, out string)"/> with no explicit choice.
-    /// Throws <see cref="LinearAlgebraChoiceException"/> on first use when the environment asks for the impossible.
-    /// </summary>
-    public static ILinearAlgebra Default => _default.Value.Provider;
-
-    /// <summary>Why <see cref="Default"/> is the provider it is, for summaries.</summary>
-    public static string DefaultReason => _default.Value.Reason;
-
     /// <summary>
     /// Picks a provider from <paramref name="choice"/> ("auto", "native" or "managed", any case), or,
     /// when it is null or blank, from <see cref="EnvironmentVariable"/>, or else "auto".

@@ -27,6 +27,12 @@ public sealed class ManagedLinearAlgebra : ILinearAlgebra
     }
 
     /// <inheritdoc />
+    public SymmetricEigenDecomposition SymmetricEigenOverwriting(DenseMatrix symmetric) => SymmetricEigen(symmetric);
+
+    /// <inheritdoc />
+    public double[] SymmetricBandEigenvalues(SymmetricBand band, out string method) => BandEigenvalues.Managed(band, this, out method);
+
+    /// <inheritdoc />
     public GeneralEigenDecomposition GeneralEigen(DenseMatrix matrix)
     {
         var evd = matrix.Evd(Symmetricity.Asymmetric);

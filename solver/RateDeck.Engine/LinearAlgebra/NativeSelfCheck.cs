@@ -36,7 +36,7 @@ internal static class NativeSelfCheck
                 return "dsterf_ gave wrong eigenvalues of a 3 x 3 tridiagonal matrix";
             }
 
-            return Near(native.BandEigenvalues(new Rates.SymmetricBand(3, 1, [2, -1, 2, -1, 2, 0])), expected)
+            return Near(native.BandEigenvalues(new SymmetricBand(3, 1, [2, -1, 2, -1, 2, 0])), expected)
                 ? null
                 : "dsbev_ gave wrong eigenvalues of a 3 x 3 band matrix";
         }

@@ -79,12 +79,8 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
     /// <inheritdoc />
     public SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric) => Decompose(symmetric, overwrite: false);
 
-    /// <summary>
-    /// As <see cref="SymmetricEigen(DenseMatrix)"/>, but LAPACK works in the storage of
-    /// <paramref name="symmetric"/>, which is destroyed (with dsyevd_ it holds the eigenvectors
-    /// afterwards and the result shares it): one N x N copy fewer, for callers that built the
-    /// matrix only to decompose it.
-    /// </summary>
+    /// <inheritdoc />
+    /// <remarks>LAPACK works in the storage of <paramref name="symmetric"/> (with dsyevd_ it holds the eigenvectors afterwards and the result shares it).</remarks>
     public SymmetricEigenDecomposition SymmetricEigenOverwriting(DenseMatrix symmetric) => Decompose(symmetric, overwrite: true);
 
     private SymmetricEigenDecomposition Decompose(DenseMatrix symmetric, bool overwrite)
@@ -199,6 +195,15 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
         return new DenseMatrix(n, nrhs, x);
     }
 
+    /// <inheritdoc />
+    /// <remarks>dsterf_ for a tridiagonal matrix, dsbev_ for a wider band.</remarks>
+    public double[] SymmetricBandEigenvalues(SymmetricBand band, out string method)
+    {
+        ArgumentNullException.ThrowIfNull(band);
+        method = band.Bandwidth <= 1 ? "dsterf_ (tridiagonal QL/QR)" : "dsbev_ (band to tridiagonal, then QL/QR)";
+        return band.Bandwidth <= 1 ? TridiagonalEigenvalues(band.Diagonal(), band.SubDiagonal()) : BandEigenvalues(band);
+    }
+
     /// <summary>
     /// All eigenvalues, ascending, of the symmetric tridiagonal matrix with the given diagonal
     /// (N) and off-diagonal (N - 1), by dsterf_: O(N^2) time, O(N) memory. Inputs are not modified.
@@ -229,7 +234,7 @@ public sealed unsafe class OpenBlasLinearAlgebra : ILinearAlgebra
     /// All eigenvalues, ascending, of a symmetric band matrix, by dsbev_ without vectors (reduction
     /// to tridiagonal form, O(N^2 b), then QL/QR, O(N^2)); O(N b) memory. The input is not modified.
     /// </summary>
-    public double[] BandEigenvalues(Rates.SymmetricBand band)
+    public double[] BandEigenvalues(SymmetricBand band)
     {
         ArgumentNullException.ThrowIfNull(band);
         int n = band.Count, kd = band.Bandwidth, ldab = kd + 1, ldz = 1, info;

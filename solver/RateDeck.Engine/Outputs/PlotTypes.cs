@@ -1,3 +1,5 @@
+using RateDeck.Diagnostics;
+
 namespace RateDeck.Outputs;
 
 /// <summary>How an axis of a plot is scaled.</summary>
@@ -70,8 +72,7 @@ public sealed record RateLimitLine(string Label, double Magnitude)
 
     /// <summary>
     /// Classical RK4 with step <paramref name="dt"/>: its stability region meets the negative real
-    /// axis at lambda dt = -2.785 (SPEC 2; the value 2.7853 is tabulated in Hairer and Wanner,
-    /// Solving ODEs II, from memory), so the line is at 2.785 / dt.
+    /// axis at lambda dt = -<see cref="StepLimits.Rk4RealAxisLimit"/>, so the line is there over dt.
     /// </summary>
-    public static RateLimitLine RungeKutta4(double dt) => new($"RK4, dt = {PlotCanvas.Number(dt)}: 2.785/dt", 2.785 / dt);
+    public static RateLimitLine RungeKutta4(double dt) => new($"RK4, dt = {PlotCanvas.Number(dt)}: {PlotCanvas.Number(StepLimits.Rk4RealAxisLimit)}/dt", StepLimits.Rk4RealAxisLimit / dt);
 }

@@ -1,6 +1,8 @@
 using System.Globalization;
 using System.Numerics;
+using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.States;
 
 namespace RateDeck.Propagation;
 
@@ -94,12 +96,12 @@ public sealed class ContourExponentialPropagator : IPropagator
     {
         PropagationInput.Check(_band.Count, initial, []);
         var amplification = Math.Max(_scaling.Amplification(initial), _scaling.Amplification(_pumping));
-        return (ApproximationError + (_band.Count * SpectralFunctions.MachineEpsilon)) * amplification;
+        return (ApproximationError + (_band.Count * Precision.MachineEpsilon)) * amplification;
     }
 
     /// <summary>The estimate for the worst start, all population in the least probable state.</summary>
     public double WorstCaseRelativeError =>
-        (ApproximationError + (_band.Count * SpectralFunctions.MachineEpsilon)) * Math.Max(Math.Exp(_scaling.HalfLogRange), _scaling.Amplification(_pumping));
+        (ApproximationError + (_band.Count * Precision.MachineEpsilon)) * Math.Max(Math.Exp(_scaling.HalfLogRange), _scaling.Amplification(_pumping));
 
     /// <inheritdoc />
     public Trajectory Propagate(double[] initial, IReadOnlyList<double> times, IProgress<double>? progress = null)

@@ -63,10 +63,10 @@ public static class ExactPropagatorChoice
                 return contour;
             }
 
-            if (rates.Count > RateMatrix.DenseStateLimit)
+            if (rates.Count > DenseStorage.StateLimit)
             {
                 throw new DenseStorageException(Format(
-                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {contourEstimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2}), and the dense Pade path needs more than the {RateMatrix.DenseStateLimit}-state limit"));
+                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {contourEstimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
             }
         }
 

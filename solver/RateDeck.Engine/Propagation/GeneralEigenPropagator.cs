@@ -45,7 +45,7 @@ public sealed class GeneralEigenPropagator : IPropagator
         }
 
         SpectralRadius = decomposition.Values.Length == 0 ? 0.0 : decomposition.Values.Max(Complex.Abs);
-        ZeroTolerance = SpectralFunctions.ZeroTolerance(SpectralRadius, rates.Count);
+        ZeroTolerance = Precision.ZeroEigenvalueTolerance(SpectralRadius, rates.Count);
         _values = decomposition.Values.Select(Clean).ToArray();
         _vectors = decomposition.Vectors;
         _inverse = (ComplexDense)_vectors.Inverse();

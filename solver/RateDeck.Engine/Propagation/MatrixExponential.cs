@@ -27,12 +27,12 @@ public static class MatrixExponential
     /// <summary>theta_13 of Higham (2005) Table 2.3 (quoted from the paper, from memory; SciPy's newer algorithm uses 4.25 instead).</summary>
     private const double _theta13 = 5.371920351148152;
 
-    /// <summary>exp(<paramref name="a"/>) with products and solves by <paramref name="la"/> (the default provider when null); the input is not modified.</summary>
+    /// <summary>exp(<paramref name="a"/>) with products and solves by <paramref name="la"/>; the input is not modified.</summary>
     /// <exception cref="ArgumentException">The matrix is not square or has a non-finite entry.</exception>
-    public static DenseMatrix Pade(DenseMatrix a, ILinearAlgebra? la = null)
+    public static DenseMatrix Pade(DenseMatrix a, ILinearAlgebra la)
     {
         ArgumentNullException.ThrowIfNull(a);
-        la ??= LinearAlgebraProviders.Default;
+        ArgumentNullException.ThrowIfNull(la);
         if (a.RowCount != a.ColumnCount)
         {
             throw new ArgumentException("the matrix exponential needs a square matrix", nameof(a));

@@ -27,7 +27,7 @@ namespace RateDeck.Propagation;
 /// </summary>
 public sealed class PadeExponentialPropagator : IPropagator
 {
-    private const double _spacingTolerance = 8 * SpectralFunctions.MachineEpsilon;
+    private const double _spacingTolerance = 8 * Precision.MachineEpsilon;
     private readonly DenseMatrix _augmented;
     private readonly ILinearAlgebra _la;
     private readonly int _count;
@@ -35,12 +35,13 @@ public sealed class PadeExponentialPropagator : IPropagator
 
     /// <summary>
     /// Sets up the exponential of K (augmented by s when <paramref name="rates"/> is driven); the
-    /// matrix products and solves go through <paramref name="la"/> (the default provider when null).
+    /// matrix products and solves go through <paramref name="la"/>.
     /// </summary>
-    public PadeExponentialPropagator(RateMatrix rates, ILinearAlgebra? la = null)
+    public PadeExponentialPropagator(RateMatrix rates, ILinearAlgebra la)
     {
         ArgumentNullException.ThrowIfNull(rates);
-        _la = la ?? LinearAlgebraProviders.Default;
+        ArgumentNullException.ThrowIfNull(la);
+        _la = la;
         _count = rates.Count;
         _driven = rates.IsDriven;
         var size = _driven ? _count + 1 : _count;

@@ -4,7 +4,7 @@ namespace RateDeck.Propagation;
 
 /// <summary>
 /// The classical fourth-order Runge-Kutta method: fourth order; stable along the negative real
-/// axis for dt rho &lt;= 2.785 (SPEC 2).
+/// axis for dt rho up to <see cref="Diagnostics.StepLimits.Rk4RealAxisLimit"/>.
 /// </summary>
 public sealed class RungeKutta4Propagator : FixedStepPropagator
 {

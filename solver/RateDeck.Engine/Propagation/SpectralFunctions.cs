@@ -5,17 +5,6 @@ namespace RateDeck.Propagation;
 /// <summary>Scalar functions shared by the eigen-decomposition propagators.</summary>
 internal static class SpectralFunctions
 {
-    /// <summary>Unit roundoff of IEEE double, 2^-52 (not <see cref="double.Epsilon"/>, the smallest subnormal).</summary>
-    public const double MachineEpsilon = 2.220446049250313e-16;
-
-    /// <summary>
-    /// Eigenvalues with |l| at most 16 N eps rho are treated as exactly zero: a backward-stable
-    /// eigen-solver returns the zero eigenvalue of a conserving generator only to within a small
-    /// multiple of N eps rho (common practice for LAPACK-style error bounds), and leaving that
-    /// rounding in would make the total population drift like exp(l t) over long runs.
-    /// </summary>
-    public static double ZeroTolerance(double spectralRadius, int count) => 16.0 * Math.Max(count, 1) * MachineEpsilon * spectralRadius;
-
     /// <summary>
     /// phi1(z) = (e^z - 1) / z with phi1(0) = 1, accurate to a few ulps for every real z by
     /// Kahan's trick phi1 = (u - 1) / ln u with u = fl(e^z) (Higham, "Accuracy and Stability of

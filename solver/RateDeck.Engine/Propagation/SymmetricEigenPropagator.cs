@@ -2,6 +2,7 @@ using System.Globalization;
 using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.States;
 
 namespace RateDeck.Propagation;
 
@@ -75,7 +76,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         _la = la;
         _scaling = new EquilibriumScaling(rates.States.LogEquilibrium);
         SpectralRadius = decomposition.Values.Length == 0 ? 0.0 : decomposition.Values.Max(Math.Abs);
-        ZeroTolerance = SpectralFunctions.ZeroTolerance(SpectralRadius, rates.Count);
+        ZeroTolerance = Precision.ZeroEigenvalueTolerance(SpectralRadius, rates.Count);
         _values = decomposition.Values.Select(l => l >= -ZeroTolerance ? 0.0 : l).ToArray();
         _vectors = decomposition.Vectors;
         _pumping = rates.IsDriven ? Project(rates.Pumping) : null;
@@ -203,7 +204,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         }
     }
 
-    private double ErrorFromAmplification(double amplification) => _values.Length * SpectralFunctions.MachineEpsilon * amplification;
+    private double ErrorFromAmplification(double amplification) => _values.Length * Precision.MachineEpsilon * amplification;
 
     /// <summary>W = V^T u with u the scaled vector of <see cref="EquilibriumScaling.Scale"/>.</summary>
     private ScaledProjection Project(double[] x)

@@ -1,5 +1,5 @@
 using MathNet.Numerics.LinearAlgebra.Double;
-using RateDeck.Propagation;
+using RateDeck.LinearAlgebra;
 using RateDeck.States;
 
 namespace RateDeck.Rates;
@@ -18,13 +18,10 @@ public enum BalanceOrigin
 /// to state i; the diagonal is minus the column's off-diagonal sum minus the state's loss, so
 /// every column sums to minus its loss. K is stored dense, or sparse (<see cref="Sparse"/>) for
 /// banded decks; a sparse matrix builds its dense form only when a stage asks for
-/// <see cref="Generator"/>, and refuses above <see cref="DenseStateLimit"/> states.
+/// <see cref="Generator"/>, and refuses above <see cref="DenseStorage.StateLimit"/> states.
 /// </summary>
 public sealed class RateMatrix
 {
-    /// <summary>Largest N whose dense form is built on request: 12,000 states are 1.15 GB of doubles.</summary>
-    public const int DenseStateLimit = 12_000;
-
     private DenseMatrix? _dense;
 
     /// <summary>Wraps an assembled dense generator.</summary>
@@ -62,7 +59,7 @@ public sealed class RateMatrix
     /// <summary>
     /// K, dense, column-major. For a sparse matrix it is built on first use (N^2 doubles) and kept.
     /// </summary>
-    /// <exception cref="DenseStorageException">The matrix is sparse and N exceeds <see cref="DenseStateLimit"/>.</exception>
+    /// <exception cref="DenseStorageException">The matrix is sparse and N exceeds <see cref="DenseStorage.StateLimit"/>.</exception>
     public DenseMatrix Generator => _dense ??= Densify();
 
     /// <summary>K in compressed sparse columns when the assembler chose sparse storage; else null.</summary>
@@ -142,15 +139,8 @@ public sealed class RateMatrix
         }
     }
 
-    private DenseMatrix Densify() => Count <= DenseStateLimit
+    private DenseMatrix Densify() => Count <= DenseStorage.StateLimit
         ? Sparse!.ToDense()
         : throw new DenseStorageException(
-            $"this step needs the rate matrix as a dense {Count} x {Count} array ({8.0 * Count * Count / 1e9:F1} GB), more than the {DenseStateLimit}-state limit; the deck is stored sparse ({StorageReason}), so use a step that works on the sparse form, or fewer states");
-}
-
-/// <summary>A stage asked for the dense form of a sparse rate matrix too large to hold; the message says what to do.</summary>
-public sealed class DenseStorageException : InvalidOperationException
-{
-    /// <summary>Creates the exception with a plain message.</summary>
-    public DenseStorageException(string message) : base(message) { }
+            $"this step needs the rate matrix as a dense {Count} x {Count} array ({8.0 * Count * Count / 1e9:F1} GB), more than the {DenseStorage.StateLimit}-state limit; the deck is stored sparse ({StorageReason}), so use a step that works on the sparse form, or fewer states");
 }

@@ -74,7 +74,7 @@ public class SparseDiagnosticsTests
     [Fact]
     public void LargeSparseMatrix_RefusesDenseFormWithPlainMessage()
     {
-        const int n = RateMatrix.DenseStateLimit + 1;
+        const int n = DenseStorage.StateLimit + 1;
         var sparse = new SparseGenerator(n, [.. Enumerable.Range(0, n + 1)], [.. Enumerable.Range(0, n)], new double[n]);
         var rates = new RateMatrix(TestRates.States(new double[n]), sparse, new double[n], new double[n], BalanceOrigin.CompletedByDetailedBalance, "sparse (test)");
 

@@ -1,5 +1,4 @@
 using RateDeck.LinearAlgebra;
-using RateDeck.Rates;
 using Xunit;
 
 namespace RateDeck.Tests.LinearAlgebra;
@@ -40,7 +39,7 @@ public class BandEigenvaluesTests
     public void ManagedQl_ReproducesRandomWalkSpectrum()
     {
         const int n = 1500;
-        AssertWalkSpectrum(BandEigenvalues.Compute(Walk(n, 3.0), new ManagedLinearAlgebra(), out var method), n, 3.0);
+        AssertWalkSpectrum(new ManagedLinearAlgebra().SymmetricBandEigenvalues(Walk(n, 3.0), out var method), n, 3.0);
         Assert.Contains("managed", method);
     }
 
@@ -48,11 +47,11 @@ public class BandEigenvaluesTests
     public void NativeTridiagonalAndBand_ReproduceRandomWalkSpectrum()
     {
         const int n = 1500;
-        AssertWalkSpectrum(BandEigenvalues.Compute(Walk(n, 3.0), NativeLapack.Required, out var tridiagonal), n, 3.0);
+        AssertWalkSpectrum(NativeLapack.Required.SymmetricBandEigenvalues(Walk(n, 3.0), out var tridiagonal), n, 3.0);
         Assert.Contains("dsterf", tridiagonal);
 
         // The same matrix stored with a second (empty) band goes through dsbev_.
-        AssertWalkSpectrum(BandEigenvalues.Compute(Walk(n, 3.0, bandwidth: 2), NativeLapack.Required, out var band), n, 3.0);
+        AssertWalkSpectrum(NativeLapack.Required.SymmetricBandEigenvalues(Walk(n, 3.0, bandwidth: 2), out var band), n, 3.0);
         Assert.Contains("dsbev", band);
     }
 }

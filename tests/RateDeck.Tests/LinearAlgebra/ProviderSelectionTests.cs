@@ -87,6 +87,10 @@ public class ProviderSelectionTests
 
         public SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric) => _inner.SymmetricEigen(symmetric);
 
+        public SymmetricEigenDecomposition SymmetricEigenOverwriting(DenseMatrix symmetric) => _inner.SymmetricEigenOverwriting(symmetric);
+
+        public double[] SymmetricBandEigenvalues(SymmetricBand band, out string method) => _inner.SymmetricBandEigenvalues(band, out method);
+
         public GeneralEigenDecomposition GeneralEigen(DenseMatrix matrix) => _inner.GeneralEigen(matrix);
 
         public DenseMatrix Multiply(DenseMatrix a, DenseMatrix b, bool transposeA = false, bool transposeB = false) =>

@@ -2,6 +2,7 @@ using System.Text.Json;
 using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.LinearAlgebra;
 using RateDeck.Propagation;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Propagation;
@@ -33,7 +34,7 @@ public class ExpmFixtureTests
         var k = DenseMatrix.OfRowArrays(fixture.Generator);
         for (var n = 0; n < fixture.Times.Length; n++)
         {
-            var exponential = MatrixExponential.Pade((DenseMatrix)(k * fixture.Times[n]));
+            var exponential = MatrixExponential.Pade((DenseMatrix)(k * fixture.Times[n]), TestProvider.Selected);
             var scipy = DenseMatrix.OfRowArrays(fixture.Exponentials[n]);
             var exact = DenseMatrix.OfRowArrays(fixture.ExactExponentials[n]);
             var scale = exact.L1Norm();
@@ -60,7 +61,7 @@ public class ExpmFixtureTests
         var scipy = new Trajectory(fixture.Times, fixture.Populations);
         var exact = new Trajectory(fixture.Times, fixture.ExactPopulations);
         var k = DenseMatrix.OfRowArrays(fixture.Generator);
-        foreach (var propagator in new[] { chosen, new PadeExponentialPropagator(rates) })
+        foreach (var propagator in new[] { chosen, new PadeExponentialPropagator(rates, TestProvider.Selected) })
         {
             var trajectory = propagator.Propagate(fixture.Initial, fixture.Times);
             var fromExact = TrajectoryComparison.Compare(exact, trajectory);

@@ -2,6 +2,7 @@ using RateDeck.Diagnostics;
 using RateDeck.LinearAlgebra;
 using RateDeck.Propagation;
 using RateDeck.Rates;
+using RateDeck.Tests.Support;
 using Xunit;
 
 namespace RateDeck.Tests.Propagation;
@@ -44,7 +45,7 @@ public class PathAgreementTests
         // output time always takes its own exponential, so the two routes can be compared.
         var rates = Ladder(driven: true);
         double[] initial = [1, 0, 0, 0, 0, 0, 0, 0];
-        var pade = new PadeExponentialPropagator(rates);
+        var pade = new PadeExponentialPropagator(rates, TestProvider.Selected);
         var times = Enumerable.Range(0, 41).Select(k => 0.25 * k).ToArray();
         var reused = pade.Propagate(initial, times);
         for (var k = 0; k < times.Length; k++)

@@ -3,6 +3,7 @@ using RateDeck.LinearAlgebra;
 using RateDeck.Propagation;
 using RateDeck.Rates;
 using RateDeck.States;
+using RateDeck.Tests.Support;
 
 namespace RateDeck.Tests.Propagation;
 
@@ -104,6 +105,6 @@ internal static class TestRates
         var la = new ManagedLinearAlgebra();
         yield return new SymmetricEigenPropagator(rates, la);
         yield return new GeneralEigenPropagator(rates, la);
-        yield return new PadeExponentialPropagator(rates);
+        yield return new PadeExponentialPropagator(rates, TestProvider.Selected);
     }
 }

@@ -1,7 +1,7 @@
-namespace RateDeck.Propagation;
+namespace RateDeck.States;
 
 /// <summary>
-/// The scaled change of variables of the symmetric paths (see <see cref="SymmetricEigenPropagator"/>):
+/// The scaled change of variables of the symmetric paths (S = D^(-1/2) K D^(1/2), D = diag(pi)):
 /// a vector x (P(0) or s) becomes u_i = x_i exp(-0.5 ln pi_i - c) with
 /// c = max_i (ln|x_i| - 0.5 ln pi_i), so that max |u_i| = 1 and nothing overflows, and a result
 /// y comes back as P_i = sign(y_i) exp(ln|y_i| + 0.5 ln pi_i + c), formed in one exponent.

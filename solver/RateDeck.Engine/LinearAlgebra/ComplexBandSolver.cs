@@ -1,7 +1,6 @@
 using System.Numerics;
-using RateDeck.Rates;
 
-namespace RateDeck.Propagation;
+namespace RateDeck.LinearAlgebra;
 
 /// <summary>
 /// Solves (z I - t S) X = B for a real symmetric band matrix S (bandwidth b), a complex shift z
