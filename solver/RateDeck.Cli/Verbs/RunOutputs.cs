@@ -19,7 +19,7 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
 
     /// <summary>Writes every output and returns the file names, in the order written.</summary>
     public IReadOnlyList<string> Write(Trajectory exact, Trajectory? explicitResult, Spectrum spectrum, StiffnessReport limits,
-        SteadyStateResult steady, double dt, ExplicitMethod method, bool plots)
+        SteadyStateResult steady, double dt, ExplicitMethod method, bool plots, bool writeRates = false)
     {
         Directory.CreateDirectory(folder);
         var deck = loaded.Deck;
@@ -35,6 +35,16 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
         if (steady.Populations is { } steadyPopulations)
         {
             WriteFile("steady-state.csv", path => ResultCsv.WriteSteadyState(path, _header, labels, loaded.States.Coordinates, steadyPopulations, loaded.States.LogEquilibrium));
+        }
+
+        if (loaded.Deck.EquilibriumGiven.HasFlag(EquilibriumGiven.Energies))
+        {
+            WriteFile("boltzmann-final.csv", path => ResultCsv.WriteBoltzmannTable(path, _header, loaded.States, exact.Populations[^1], EnergyUnits.Name(deck.EnergyUnit)));
+        }
+
+        if (writeRates)
+        {
+            WriteFile("rate-matrix.csv", path => ResultCsv.WriteRateMatrix(path, _header, loaded.Rates, deck.TimeUnit));
         }
 
         if (plots)

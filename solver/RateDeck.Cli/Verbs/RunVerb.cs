@@ -27,6 +27,7 @@ public sealed class RunVerb : IVerb
         new("--allow-unstable", null, "run an explicit step above the stability limit anyway, to see it fail"),
         new("--require-accuracy", null, "exit 4 when explicit and exact differ by more than run.accuracy of the total"),
         new("--no-plots", null, "write no PNG plots"),
+        new("--write-rates", null, "also write the assembled rate matrix K as rate-matrix.csv (from, to, rate triplets)"),
     ]);
 
     /// <inheritdoc />
@@ -76,7 +77,7 @@ public sealed class RunVerb : IVerb
         var stabilityLimit = run.StabilityLimit;
 
         var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
-        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"));
+        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"), args.Has("--write-rates"));
 
         var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
         if (args.Has("--json"))

@@ -245,6 +245,12 @@ public sealed record RunSpec(
     /// </summary>
     public double Accuracy { get; init; } = DefaultAccuracy;
 
+    /// <summary>
+    /// run.times: output times listed by the deck (ascending, in (0, t_end]); null when the
+    /// outputs are a grid. t = 0 and t_end are always written as well.
+    /// </summary>
+    public IReadOnlyList<double>? ListedTimes { get; init; }
+
     /// <summary>The default of <see cref="Accuracy"/>: 1e-3 of the total population, a plot's resolution.</summary>
     public const double DefaultAccuracy = 1e-3;
 }

@@ -475,10 +475,48 @@ public static partial class DeckReader
                 }
             }
 
+            var listed = ReadListedTimes(run, tEnd);
             var plotStates = run.Array("plot_states") is { } plots
                 ? plots.Items.Select(item => _states.Resolve(item, "run.plot_states")).ToArray()
                 : [];
-            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span) { Accuracy = accuracy };
+            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span) { Accuracy = accuracy, ListedTimes = listed };
+        }
+
+        /// <summary>run.times: measurement times, strictly ascending in (0, t_end]; not with a grid's keys.</summary>
+        private static double[]? ReadListedTimes(DeckSection run, double tEnd)
+        {
+            if (run.Array("times") is not { } array)
+            {
+                return null;
+            }
+
+            foreach (var gridKey in new[] { "outputs", "spacing", "t_first" })
+            {
+                run.Forbid(gridKey, "`run.times` lists the output times; leave out the grid's outputs, spacing and t_first");
+            }
+
+            if (array.Items.Count == 0)
+            {
+                throw new DeckException(array.Span, "`run.times` is empty; list at least one output time, like [1e-6, 5e-6]");
+            }
+
+            var times = new double[array.Items.Count];
+            for (var k = 0; k < times.Length; k++)
+            {
+                var node = array.Items[k];
+                times[k] = Positive(node, "run.times");
+                if (times[k] > tEnd)
+                {
+                    throw new DeckException(node.Span, $"output time {DeckSection.Format(times[k])} is after `run.t_end` ({DeckSection.Format(tEnd)})");
+                }
+
+                if (k > 0 && times[k] <= times[k - 1])
+                {
+                    throw new DeckException(node.Span, $"`run.times` must be strictly ascending: {DeckSection.Format(times[k])} follows {DeckSection.Format(times[k - 1])}");
+                }
+            }
+
+            return times;
         }
 
         private static double? ReadDt(DeckSection run)

@@ -23,7 +23,7 @@ internal static class DeckSchema
         ["losses"] = ["values", "expression", "by_state"],
         ["pumping"] = ["values", "expression", "by_state"],
         ["initial"] = ["state", "values", "expression", "equilibrium"],
-        ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "plot_states"],
+        ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "times", "plot_states"],
         ["mechanics"] = ["lagrangian", "planck"],
         ["fit"] = ["starts", "seed", "max_iterations", "profile", "triangle", "free", "observables", "data"],
     };

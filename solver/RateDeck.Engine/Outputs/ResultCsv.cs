@@ -116,6 +116,59 @@ public static class ResultCsv
     }
 
     /// <summary>
+    /// The assembled rate matrix K as triplets: columns <c>from</c>, <c>to</c> (state labels) and
+    /// <c>rate</c> = K[to, from] per time unit, one row per stored entry, the diagonal (minus the
+    /// outflow and loss of a state) included, in column order. Zero off-diagonal entries are left
+    /// out, so a sparse deck's file grows with its stored entries, not with N^2.
+    /// </summary>
+    public static void WriteRateMatrix(string path, OutputHeader header, Rates.RateMatrix rates, string timeUnit)
+    {
+        ArgumentNullException.ThrowIfNull(rates);
+        var entries = new List<(int To, int From, double Rate)>();
+        rates.ForEachOffDiagonal((to, from, rate) =>
+        {
+            if (rate != 0)
+            {
+                entries.Add((to, from, rate));
+            }
+        });
+        entries.AddRange(Enumerable.Range(0, rates.Count).Select(j => (j, j, rates.Diagonal(j))));
+        entries.Sort((a, b) => a.From != b.From ? a.From.CompareTo(b.From) : a.To.CompareTo(b.To));
+        var labels = rates.States.Labels;
+        KeyValuePair<string, string>[] notes =
+        [
+            new("values", $"K[to, from], the rate from state `from` to state `to` in 1/{timeUnit}; the diagonal from = to is minus the outflow and the loss"),
+        ];
+        WriteTable(path, header, notes, ["from", "to", "rate"], entries.Count, (k, row) =>
+        {
+            row.WriteField(labels[entries[k].From]);
+            row.WriteField(labels[entries[k].To]);
+            row.WriteField(CsvNumber.Format(entries[k].Rate));
+        });
+    }
+
+    /// <summary>
+    /// The Boltzmann-plot table at one time: columns <c>label</c>, <c>energy</c>, <c>weight</c> g_i,
+    /// <c>population</c> n_i, <c>population_per_weight</c> n_i / g_i and <c>ln_population_per_weight</c>
+    /// (empty as <c>-inf</c> where n_i &lt;= 0). Under a Boltzmann law ln(n_i / g_i) falls on a line of
+    /// slope -1/kT in E_i.
+    /// </summary>
+    public static void WriteBoltzmannTable(string path, OutputHeader header, States.StateSpace states, IReadOnlyList<double> population, string energyUnit)
+    {
+        ArgumentNullException.ThrowIfNull(states);
+        ArgumentNullException.ThrowIfNull(population);
+        var perWeight = population.Select((n, i) => n / Math.Exp(states.LogWeights[i])).ToArray();
+        WritePerStateTable(path, header, states.Labels,
+        [
+            new CsvColumn("energy", states.Energies, energyUnit),
+            new CsvColumn("weight", states.LogWeights.Select(Math.Exp).ToArray()),
+            new CsvColumn("population", population),
+            new CsvColumn("population_per_weight", perWeight),
+            new CsvColumn("ln_population_per_weight", population.Select((n, i) => n > 0 ? Math.Log(n) - states.LogWeights[i] : double.NegativeInfinity).ToArray()),
+        ]);
+    }
+
+    /// <summary>
     /// A per-state table of derived quantities (energies, actions, periods, weights...): column
     /// <c>label</c>, then one per <paramref name="columns"/> entry. Units, where given, go to a
     /// <c># units: name=unit, ...</c> comment line.

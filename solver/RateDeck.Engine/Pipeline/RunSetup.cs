@@ -27,13 +27,19 @@ public static class RunSetup
     public const int GridTimeDigits = 12;
 
     /// <summary>
-    /// The output times: t = 0, then <see cref="RunSpec.OutputCount"/> times up to t_end, evenly
+    /// The output times: t = 0, then the deck's listed times (and t_end when the list stops short of
+    /// it), or <see cref="RunSpec.OutputCount"/> times up to t_end, evenly
     /// spaced or geometric from t_first. t_first and t_end are the deck's numbers exactly; the times
     /// between are rounded to <see cref="GridTimeDigits"/> significant digits.
     /// </summary>
     public static double[] OutputTimes(RunSpec run, double? endTimeOverride = null)
     {
         var end = endTimeOverride ?? run.EndTime;
+        if (run.ListedTimes is { } listed && endTimeOverride is null)
+        {
+            return [0.0, .. listed, .. listed[^1] < end ? new[] { end } : []];
+        }
+
         var count = run.OutputCount;
         var times = new double[count + 1];
         if (run.Spacing == OutputSpacing.Logarithmic && count > 1)

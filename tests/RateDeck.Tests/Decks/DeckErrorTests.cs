@@ -65,7 +65,7 @@ public sealed class DeckErrorTests : IDisposable
     public void UnknownKeyInTable_SuggestsTheClosestKeyAndListsTheKeys()
     {
         var error = _scratch.FailAt(DeckScratch.Valid(run: "t_end = 1.0\n§outptus = 10"));
-        Assert.Equal("unknown key `outptus` in [run]. Did you mean `outputs`? Its keys are t_end, outputs, spacing, t_first, explicit, dt, safety, accuracy, plot_states.", error.Problem);
+        Assert.Equal("unknown key `outptus` in [run]. Did you mean `outputs`? Its keys are t_end, outputs, spacing, t_first, explicit, dt, safety, accuracy, times, plot_states.", error.Problem);
     }
 
     [Fact]
