@@ -20,6 +20,9 @@ namespace RateDeck.Fitting.Model;
 /// </summary>
 public sealed partial class DataSetModel
 {
+    /// <summary>Up to this many states a banded deck is fitted on the dense symmetric eigen path instead of the contour path.</summary>
+    public const int DenseEigenLimit = 1000;
+
     private readonly ILinearAlgebra _algebra;
     private readonly Observable[] _observables;
     private readonly int[][] _timeIndex;
@@ -154,6 +157,17 @@ public sealed partial class DataSetModel
         var chosen = ExactPropagatorChoice.Choose(rates, _algebra, initial: initial);
         PropagatorPath = chosen.Name;
         PropagatorReason = chosen.Reason;
+        if (chosen is ContourExponentialPropagator && rates.Count <= DenseEigenLimit)
+        {
+            // The contour path saves memory on large banded decks; below this size one dense
+            // decomposition per trial is faster and as accurate when its rounding estimate allows.
+            var symmetric = new SymmetricEigenPropagator(rates, _algebra);
+            if (symmetric.RelativeErrorEstimate(initial) <= SymmetricEigenPropagator.RelativeErrorLimit)
+            {
+                PropagatorPath = symmetric.Name;
+                PropagatorReason = $"symmetric eigen-decomposition: {rates.Count} states are few enough for a dense decomposition per trial ({chosen.Reason[..chosen.Reason.IndexOf(';', StringComparison.Ordinal)]} otherwise)";
+            }
+        }
     }
 
     private IPropagator CreatePropagator(RateMatrix rates) => PropagatorPath switch

@@ -20,6 +20,12 @@ public interface ILeastSquaresProblem
     /// <summary>Upper bound of each variable (may be +infinity).</summary>
     IReadOnlyList<double> Upper { get; }
 
+    /// <summary>
+    /// The RSS at or below which the residuals are the model's rounding (an exact fit): the
+    /// optimizer stops there as converged when no step reduces the RSS further.
+    /// </summary>
+    double RoundingRss { get; }
+
     /// <summary>Fills <paramref name="residuals"/> at <paramref name="u"/>; false when the trial is infeasible.</summary>
     bool TryResiduals(double[] u, double[] residuals);
 

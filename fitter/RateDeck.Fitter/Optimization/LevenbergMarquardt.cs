@@ -14,6 +14,11 @@ public enum StopReason
     RssChangeSmall,
     /// <summary>The residuals are exactly zero.</summary>
     ZeroResiduals,
+    /// <summary>
+    /// No trial step reduced the RSS while the Gauss-Newton step predicted a reduction of at most
+    /// <see cref="LevenbergMarquardt.RoundingTolerance"/> of it: the minimum within the model's rounding.
+    /// </summary>
+    RoundingLimited,
     /// <summary>Not converged: the iteration limit was reached.</summary>
     IterationLimit,
     /// <summary>Not converged: no step, however short, reduced the RSS (derivatives inaccurate, or every trial infeasible).</summary>
@@ -44,7 +49,7 @@ public sealed record LeastSquaresResult(
     StopReason Stop)
 {
     /// <summary>True for the stop reasons that mean convergence.</summary>
-    public bool Converged => Stop is StopReason.GradientOrthogonal or StopReason.StepSmall or StopReason.RssChangeSmall or StopReason.ZeroResiduals;
+    public bool Converged => Stop is StopReason.GradientOrthogonal or StopReason.StepSmall or StopReason.RssChangeSmall or StopReason.ZeroResiduals or StopReason.RoundingLimited;
 }
 
 /// <summary>
@@ -73,6 +78,9 @@ public sealed class LevenbergMarquardt(int maxIterations)
 
     /// <summary>Tolerance of the RSS-change test (3).</summary>
     public const double RssTolerance = 1e-14;
+
+    /// <summary>Tolerance of the rounding test (5).</summary>
+    public const double RoundingTolerance = 1e-10;
 
     private const double _initialDamping = 1e-3;
     private const double _maxDamping = 1e16;
@@ -178,7 +186,7 @@ public sealed class LevenbergMarquardt(int maxIterations)
                 growth *= 2;
                 if (damping > _maxDamping)
                 {
-                    return Result(StopReason.NoDescent);
+                    return Result(step.GaussNewtonReduction <= RoundingTolerance * cost || cost <= problem.RoundingRss ? StopReason.RoundingLimited : StopReason.NoDescent);
                 }
             }
         }
@@ -314,6 +322,9 @@ public sealed class LevenbergMarquardt(int maxIterations)
             _v = svd.VT.Transpose();
             _projected = svd.U.TransposeThisAndMultiply(qr.Q.TransposeThisAndMultiply(DenseVector.OfArray(r))).ToArray();
         }
+
+        /// <summary>The RSS reduction the undamped (Gauss-Newton) step predicts: |U^T Q^T r|^2 over the non-zero singular values.</summary>
+        public double GaussNewtonReduction => _projected.Where((_, s) => _singular[s] > 0).Sum(z => z * z);
 
         /// <summary>The largest squared singular value of the scaled Jacobian (free columns).</summary>
         public double LargestSquaredValue => _singular.Length == 0 ? 0 : _singular[0] * _singular[0];

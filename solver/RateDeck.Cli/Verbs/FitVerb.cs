@@ -22,6 +22,7 @@ public sealed class FitVerb : IVerb
         new("--starts", "N", "number of starting points: the deck's values, then seeded random ones (default: fit.starts or 1)"),
         new("--seed", "N", "seed of the random starting points (default: fit.seed or 1)"),
         new("--profile", null, "add profile-likelihood intervals beside the standard errors"),
+        new("--no-plots", null, "write no PNG plot"),
     ]);
 
     /// <inheritdoc />
@@ -44,14 +45,39 @@ public sealed class FitVerb : IVerb
         var files = new List<string> { "residuals.csv", "correlation.csv" };
         FitFiles.WriteResiduals(Path.Combine(folder, files[0]), outcome);
         FitFiles.WriteCorrelation(Path.Combine(folder, files[1]), outcome);
+        if (!args.Has("--no-plots"))
+        {
+            files.Add("fit.png");
+            FitPlot.Write(Path.Combine(folder, "fit.png"), outcome);
+        }
+
+        var notWrittenBack = new List<string>();
+        string? fittedDeck = null;
+        if (outcome.Report.Converged)
+        {
+            var name = Path.GetFileNameWithoutExtension(args.DeckPath) + ".fitted.toml";
+            fittedDeck = args.Value("--out") is null ? Path.Combine(Path.GetDirectoryName(args.DeckPath) ?? "", name) : Path.Combine(folder, name);
+            notWrittenBack.AddRange(FittedDeckWriter.Write(args.DeckPath, fittedDeck, outcome.Problem.Parameters, outcome.Values, outcome.Deck.EnergyUnit));
+        }
+
         var report = outcome.Report;
         if (args.Has("--json"))
         {
-            JsonSummary.Write(context.Out, Json(outcome, algebra, folder, files));
+            var json = Json(outcome, algebra, folder, files);
+            json["fitted_deck"] = fittedDeck;
+            json["not_written_back"] = notWrittenBack;
+            JsonSummary.Write(context.Out, json);
         }
         else
         {
             WriteSummary(context.Out, outcome, algebra, folder, files);
+            context.Out.WriteLine(fittedDeck is null
+                ? "fitted deck not written: the fit did not converge"
+                : $"wrote the fitted deck {fittedDeck} (only the fitted values changed)");
+            foreach (var note in notWrittenBack)
+            {
+                context.Out.WriteLine($"  not written back: {note}");
+            }
         }
 
         return report.Converged ? ExitCodes.Success : ExitCodes.NotConverged;
@@ -124,6 +150,7 @@ public sealed class FitVerb : IVerb
         Fitting.Optimization.StopReason.StepSmall => "step: the last step changed no parameter by more than 1e-10 relative",
         Fitting.Optimization.StopReason.RssChangeSmall => "rss: the last step changed the RSS by less than 1e-14 relative",
         Fitting.Optimization.StopReason.ZeroResiduals => "zero residuals",
+        Fitting.Optimization.StopReason.RoundingLimited => "rounding: no step reduces the RSS and the Gauss-Newton step predicts less than 1e-10 of it",
         Fitting.Optimization.StopReason.IterationLimit => "not converged: iteration limit (fit.max_iterations)",
         Fitting.Optimization.StopReason.NoDescent => "not converged: no step reduces the RSS (inaccurate derivatives, or every trial infeasible)",
         _ => "not converged: the Jacobian could not be evaluated at an accepted point",
