@@ -26,7 +26,7 @@ public sealed partial class DataSetModel
     private readonly ILinearAlgebra _algebra;
     private readonly Observable[] _observables;
     private readonly int[][] _timeIndex;
-    private readonly MechanicsWeightDeriver _mechanics;
+    private readonly MechanicsDeriver _mechanics;
 
     private DataSetModel(DataSetSpec spec, Deck deck, DataTable data, Observable[] observables, double[] times, int[][] timeIndex, bool mechanicsPerTrial, ILinearAlgebra algebra)
     {
@@ -190,29 +190,29 @@ public sealed partial class DataSetModel
         return targets.Any(t => t is TemperatureTarget ? names.Contains("kT") : t is DeckParameterTarget && names.Contains(t.Key));
     }
 
-    private MechanicsWeightDeriver DeriveEveryTime() => (lagrangian, energies, planck) =>
+    private MechanicsDeriver DeriveEveryTime() => (lagrangian, energies, planck) =>
     {
         MechanicsDerivations++;
-        return new MechanicsStage().DeriveWeights(lagrangian, energies, planck);
+        return LagrangianMechanics.Derive(lagrangian, energies, planck);
     };
 
     /// <summary>Derives once and reuses the weights while the energies and h are the same (they are when no free value reaches them).</summary>
-    private MechanicsWeightDeriver DeriveOnce()
+    private MechanicsDeriver DeriveOnce()
     {
         double[]? energiesSeen = null;
         var planckSeen = double.NaN;
-        double[]? weights = null;
+        MechanicsResult? result = null;
         return (lagrangian, energies, planck) =>
         {
-            if (weights is null || planck != planckSeen || !energies.SequenceEqual(energiesSeen!))
+            if (result is null || planck != planckSeen || !energies.SequenceEqual(energiesSeen!))
             {
                 MechanicsDerivations++;
-                weights = new MechanicsStage().DeriveWeights(lagrangian, energies, planck);
+                result = LagrangianMechanics.Derive(lagrangian, energies, planck);
                 energiesSeen = (double[])energies.Clone();
                 planckSeen = planck;
             }
 
-            return (double[])weights.Clone();
+            return result;
         };
     }
 

@@ -26,7 +26,7 @@ public static partial class FittedDeckWriter
         ArgumentNullException.ThrowIfNull(parameters);
         ArgumentNullException.ThrowIfNull(values);
         var text = File.ReadAllText(deckPath, new UTF8Encoding(false, true));
-        var root = TomlTree.ParseDocument(text, deckPath);
+        var (root, _) = TomlTree.ParseDocument(text, deckPath);
         var lineStarts = LineStarts(text);
         var edits = new List<(int Start, int Length, string Value)>();
         var skipped = new List<string>();

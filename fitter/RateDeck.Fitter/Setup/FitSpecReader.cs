@@ -29,9 +29,9 @@ public static class FitSpecReader
             throw new DeckException(SourceSpan.None(path), $"cannot read the deck: {e.Message}");
         }
 
-        var root = TomlTree.ParseDocument(text, path);
+        var (root, _) = TomlTree.ParseDocument(text, path);
         DeckSchema.Check(root);
-        Overrides.Apply(root, overrides);
+        Overrides.Apply(root, overrides.Select(DeckOverride.Parse));
         var deckSpan = new SourceSpan(path, 1, 1);
         var fit = new DeckSection("fit", root.Find("fit")?.Value as TomlTableNode, deckSpan);
         if (!fit.Exists)

@@ -11,7 +11,7 @@ public sealed record VerbSyntax(string Verb, string Summary, IReadOnlyList<Optio
     /// <summary>Options every verb accepts.</summary>
     public static readonly IReadOnlyList<OptionSpec> Common =
     [
-        new("--set", "KEY=VALUE", "override a deck parameter or key (repeatable)"),
+        new("--set", "KEY=VALUE", "override a deck parameter or key, or remove:KEY (repeatable)"),
         new("--json", null, "print one JSON object on stdout instead of the summary"),
         new("--linalg", "auto|native|managed", "linear-algebra provider (default auto, or RATEDECK_LINALG)"),
     ];

@@ -22,6 +22,8 @@ public sealed class RunVerb : IVerb
         new("--method", "euler|rk4", "explicit method (default: the deck's run.explicit)"),
         new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
         new("--exact-only", null, "skip the explicit method"),
+        new("--exact", "auto|implicit|extended", "exact path: auto (default: chosen from the spectrum, reason printed), the implicit integrator, or the double-double eigen path"),
+        new("--implicit", null, "also run the implicit integrator beside explicit and exact, and compare it with exact"),
         new("--allow-unstable", null, "run an explicit step above the stability limit anyway, to see it fail"),
         new("--require-accuracy", null, "exit 4 when explicit and exact differ by more than run.accuracy of the total"),
         new("--no-plots", null, "write no PNG plots"),
@@ -41,17 +43,32 @@ public sealed class RunVerb : IVerb
             AutomaticDt = dtText == "auto",
             ExactOnly = args.Has("--exact-only"),
             AllowUnsafeStep = args.Has("--allow-unstable"),
+            ExactPath = ExactPath(args),
+            WithImplicit = args.Has("--implicit"),
             Progress = label => new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error),
         });
-        var explicitWanted = !run.Options.ExactOnly;
+        var explicitWanted = !run.Options.ExactOnly && run.ExplicitDeclined is null;
         if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
         {
-            context.Error.WriteLine($"ratedeck run: {run.StepVerdict.Problem}; "
-                + "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge");
+            var advice = run.ExplicitStep <= run.StabilityLimit
+                ? "use --exact-only, or drop --dt and --method to let run decline the explicit method"
+                : "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge";
+            context.Error.WriteLine($"ratedeck run: {run.StepVerdict.Problem}; {advice}");
             return ExitCodes.UnsafeTimeStep;
         }
 
+        IPropagator exactPropagator;
+        try
+        {
+            exactPropagator = run.ExactPropagator;
+        }
+        catch (ArgumentException e) when (run.Options.ExactPath is not null)
+        {
+            throw new UsageException($"--exact {args.Value("--exact")}: {e.Message}");
+        }
+
         var exact = run.Exact;
+        _ = run.Implicit;
         var explicitResult = run.Explicit;
         var difference = run.Difference;
         var steady = run.Steady;
@@ -66,9 +83,13 @@ public sealed class RunVerb : IVerb
         if (args.Has("--json"))
         {
             var fields = VerbSupport.JsonFields(loaded);
-            fields["propagator"] = run.ExactPropagator.Name;
-            fields["propagator_reason"] = run.ExactPropagator.Reason;
+            fields["propagator"] = exactPropagator.Name;
+            fields["propagator_reason"] = exactPropagator.Reason;
             fields["explicit_method"] = explicitMethod;
+            fields["explicit_declined"] = run.ExplicitDeclined;
+            fields["implicit_steps"] = run.ImplicitPropagator?.Statistics;
+            fields["implicit_vs_exact_max_abs_difference"] = run.ImplicitDifference?.MaxAbsolute;
+            fields["implicit_vs_exact_max_rel_difference"] = run.ImplicitDifference?.MaxRelative;
             fields["dt"] = explicitWanted ? dt : null;
             fields["dt_stability_limit"] = stabilityLimit;
             fields["dt_chosen_for_accuracy"] = run.AccurateStep is not null;
@@ -90,15 +111,34 @@ public sealed class RunVerb : IVerb
         else
         {
             VerbSupport.WriteDeckLine(context.Out, loaded);
-            context.Out.WriteLine($"exact        {run.ExactPropagator.Reason}");
+            context.Out.WriteLine($"exact        {exactPropagator.Reason}");
+            if (exactPropagator is ImplicitSdirkPropagator steps)
+            {
+                context.Out.WriteLine($"             {steps.Statistics}");
+            }
+
             if (run.ExplicitPropagator is { } explicitPropagator)
             {
                 context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
                 context.Out.WriteLine($"             {run.AccurateStep?.Reason ?? "dt as given, not chosen for accuracy"}");
             }
+            else if (run.ExplicitDeclined is { } declined)
+            {
+                context.Out.WriteLine($"explicit     {declined}");
+            }
+
+            if (run.ImplicitPropagator is { } implicitPropagator && !ReferenceEquals(implicitPropagator, exactPropagator))
+            {
+                context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
+            }
 
             context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Number(run.Times[^1])} {loaded.Deck.TimeUnit}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
+            if (run.ImplicitDifference is { } versus)
+            {
+                context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Number(versus.WorstTime)}, state {loaded.States.Labels[versus.WorstState]})");
+            }
+
             if (run.AccuracyMet == false)
             {
                 context.Out.WriteLine($"  ACCURACY: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above the accuracy target {Format.Number(loaded.Deck.Run.Accuracy)} (run.accuracy); trust the exact result{(run.AccurateStep is null ? ", or let dt = auto choose the step" : "")}");
@@ -116,6 +156,15 @@ public sealed class RunVerb : IVerb
 
         return ExitCodes.Success;
     }
+
+    /// <summary>The exact path asked for with --exact; null for auto (the engine chooses and says why).</summary>
+    private static ExactPathRequest? ExactPath(ParsedArguments args) => args.Value("--exact") switch
+    {
+        null or "auto" => null,
+        "implicit" => ExactPathRequest.Implicit,
+        "extended" => ExactPathRequest.Extended,
+        var other => throw new UsageException($"--exact takes auto, implicit or extended, not '{other}'"),
+    };
 
     private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)
     {

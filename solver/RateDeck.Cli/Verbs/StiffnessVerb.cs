@@ -43,6 +43,9 @@ public sealed class StiffnessVerb : IVerb
             var fields = VerbSupport.JsonFields(loaded);
             fields["spectral_radius"] = report.SpectralRadius;
             fields["slowest_rate"] = report.SlowestRate;
+            fields["slow_modes_resolved"] = spectrum.IsResolved;
+            fields["slow_modes_unresolved_reason"] = spectrum.Unresolved;
+            fields["eigenvalue_absolute_accuracy"] = spectrum.AbsoluteAccuracy;
             fields["stiffness_ratio"] = report.StiffnessRatio;
             fields["max_diagonal_rate"] = report.MaxDiagonalRate;
             fields["dt_euler_stable"] = report.EulerStable.MaxStep;
@@ -57,6 +60,9 @@ public sealed class StiffnessVerb : IVerb
             fields["rk4_safe"] = report.Rk4Safe;
             fields["positivity_preserving"] = report.PositivityPreserving;
             fields["dt_safe"] = dt is null ? (bool?)null : safe;
+            fields["explicit_steps_at_dt"] = report.StepsAtDt;
+            fields["explicit_step_budget"] = StepLimits.ExplicitStepBudget;
+            fields["within_step_budget"] = report.WithinBudget;
             fields["recommendation"] = report.Recommendation;
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
@@ -75,9 +81,13 @@ public sealed class StiffnessVerb : IVerb
         output.WriteLine($"spectrum     {spectrum.PathReason}");
         output.WriteLine();
         output.WriteLine($"  spectral radius rho      {Format.Number(report.SpectralRadius)}");
-        output.WriteLine($"  slowest non-zero rate    {Optional(report.SlowestRate)}");
+        output.WriteLine($"  slowest non-zero rate    {(spectrum.IsResolved || report.SlowestRate is not null ? Optional(report.SlowestRate) : $"not resolved (below about {Format.Number(spectrum.AbsoluteAccuracy)})")}");
         output.WriteLine($"  stiffness ratio          {Optional(report.StiffnessRatio)}");
         output.WriteLine($"  max |K_ii|               {Format.Number(report.MaxDiagonalRate)}");
+        if (spectrum.Unresolved is { } unresolved)
+        {
+            output.WriteLine($"  NOT RESOLVED             {unresolved}; the slow rates above are not to be trusted (run takes an accurate path and names it on its exact line)");
+        }
         output.WriteLine();
         var horizon = report.Horizon is { } h ? $"steps to t = {Format.Number(h)}{(report.HorizonIsEndTime ? "" : " (1/slowest rate)")}" : "steps";
         output.WriteLine($"  {"limit",-16} {"largest dt",-12} {horizon}");
@@ -92,6 +102,13 @@ public sealed class StiffnessVerb : IVerb
             output.WriteLine($"  dt = {Format.Number(dt)}: euler {Verdict(report.EulerSafe)}, rk4 {Verdict(report.Rk4Safe)}, positivity {(report.PositivityPreserving == true ? "kept" : "NOT kept")} (forward Euler)");
             var verdict = (chosen == ExplicitMethod.Euler ? report.EulerSafe : report.Rk4Safe) == true ? "safe" : "UNSAFE";
             output.WriteLine($"  for the deck's method ({VerbSupport.MethodName(chosen)}) the step is {verdict}");
+            if (report.StepsAtDt is { } steps)
+            {
+                var within = report.WithinBudget == true
+                    ? $"within the budget of {Format.Number(StepLimits.ExplicitStepBudget)} explicit steps"
+                    : $"ABOVE the budget of {Format.Number(StepLimits.ExplicitStepBudget)} explicit steps: refused; run the deck with exact propagation (ratedeck run declines the explicit method)";
+                output.WriteLine($"  explicit stepping at dt = {Format.Number(dt)} needs {Format.Count(steps)} steps to t = {Format.Number(report.Horizon!.Value)}: {within}");
+            }
         }
 
         output.WriteLine();

@@ -3,6 +3,7 @@ using RateDeck.Decks;
 using RateDeck.LinearAlgebra;
 using RateDeck.Outputs;
 using RateDeck.Pipeline;
+using RateDeck.Text;
 
 namespace RateDeck.Cli.Verbs;
 
@@ -41,6 +42,9 @@ internal static class VerbSupport
         ["overrides"] = loaded.Deck.Overrides,
         ["linear_algebra"] = loaded.Algebra.Name,
         ["states"] = loaded.States.Count,
+        ["kt"] = loaded.Deck.KT,
+        ["energy_unit"] = EnergyUnits.Name(loaded.Deck.EnergyUnit),
+        ["temperature_kelvin"] = EnergyUnits.KelvinFromKT(loaded.Deck.KT, loaded.Deck.EnergyUnit),
     };
 
     /// <summary>The first lines of every summary: which deck, how many states, which provider.</summary>
@@ -54,7 +58,13 @@ internal static class VerbSupport
         }
 
         output.WriteLine($"states       {loaded.States.Count} ({StateRange(loaded.States.Labels)})   linear algebra: {loaded.Algebra.Name}");
+        output.WriteLine($"temperature  {Temperature(deck)}");
     }
+
+    /// <summary>"kT = 0.05 eV (T = 580 K)"; a deck in model units has no kelvin and says so.</summary>
+    private static string Temperature(Deck deck) => EnergyUnits.KelvinFromKT(deck.KT, deck.EnergyUnit) is { } kelvin
+        ? $"kT = {Format.Number(deck.KT)} {EnergyUnits.Name(deck.EnergyUnit)} (T = {Format.Number(kelvin)} K)"
+        : $"kT = {Format.Number(deck.KT)} (model energy units, no temperature in kelvin)";
 
     private static string StateRange(string[] labels) =>
         labels.Length <= 4 ? string.Join(", ", labels) : $"{labels[0]} .. {labels[^1]}";

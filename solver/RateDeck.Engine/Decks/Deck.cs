@@ -67,9 +67,38 @@ public sealed record Deck
     /// <summary>Named values usable in every expression, after overrides.</summary>
     public required IReadOnlyDictionary<string, DeckParameter> Parameters { get; init; }
 
-    /// <summary>The <c>--set key=value</c> overrides applied, as given, in order.</summary>
+    /// <summary>The overrides applied, in order, each as the <c>--set</c> text that repeats it (provenance).</summary>
     public required IReadOnlyList<string> Overrides { get; init; }
+
+    /// <summary>The overrides applied, in order (replayed on the deck file's values by <see cref="With"/>).</summary>
+    internal IReadOnlyList<DeckOverride> AppliedOverrides { get; init; } = [];
+
+    /// <summary>The deck file's values and syntax tree before any override; null for a deck built in code.</summary>
+    internal DeckSource? Source { get; init; }
+
+    /// <summary>What the stages keep for decks derived from the same file (compiled expressions, rate rows, mechanics).</summary>
+    internal DeckMemo Memo { get; init; } = new();
+
+    /// <summary>
+    /// This deck with <paramref name="overrides"/> applied after the ones it has, validated exactly
+    /// as a deck file saying so would be, and recorded in <see cref="Overrides"/>. Cheap: the TOML is
+    /// not parsed and no rate file is read again, and the stages reuse what they compiled or derived
+    /// for this deck where its inputs are unchanged (see <see cref="Pipeline.DeckPipeline"/>). A fit
+    /// calls this once per trial, with <see cref="DeckOverride.KT"/>, <see cref="DeckOverride.Parameter"/>
+    /// and <see cref="DeckOverride.Set(string, double)"/> for rates (<c>losses.by_state.k1</c>) and
+    /// initial populations (<c>initial.values</c>); trials may run in parallel.
+    /// </summary>
+    /// <exception cref="DeckException">An override is invalid, or the deck it makes is (at the override).</exception>
+    /// <exception cref="InvalidOperationException">The deck was built in code, not read from a deck file.</exception>
+    public Deck With(params IEnumerable<DeckOverride> overrides)
+    {
+        var source = Source ?? throw new InvalidOperationException("this deck was built in code, not read from a deck file, so there is no file to apply overrides to");
+        return DeckReader.Derive(source, [.. AppliedOverrides, .. overrides], Memo);
+    }
 }
+
+/// <summary>A deck file as read: its values (schema-checked, before overrides), Tomlyn's syntax tree of the text, where it is and its hash.</summary>
+internal sealed record DeckSource(TomlTableNode Root, Tomlyn.Syntax.DocumentSyntax Syntax, string Path, string BaseDirectory, string Sha256);
 
 /// <summary>Which of the quantities that make pi_i = g_i exp(-E_i / kT) / Z a deck gives.</summary>
 [Flags]

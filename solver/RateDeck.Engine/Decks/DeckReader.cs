@@ -39,25 +39,43 @@ public static partial class DeckReader
 
     private static Deck Parse(string text, string sha256, string path, string baseDirectory, IReadOnlyList<string> overrides)
     {
-        var root = TomlTree.ParseDocument(text, path);
+        var (root, syntax) = TomlTree.ParseDocument(text, path);
         DeckSchema.Check(root);
+        var source = new DeckSource(root, syntax, path, baseDirectory, sha256);
+        return Derive(source, overrides.Select(DeckOverride.Parse).ToArray(), new DeckMemo());
+    }
+
+    /// <summary>
+    /// The deck of <paramref name="source"/> with <paramref name="overrides"/> applied in order,
+    /// validated; the source's tree is left as it was. <paramref name="memo"/> carries what the
+    /// stages may reuse (rate files read, expressions compiled) to the new deck.
+    /// </summary>
+    internal static Deck Derive(DeckSource source, IReadOnlyList<DeckOverride> overrides, DeckMemo memo)
+    {
+        var root = overrides.Count == 0 ? source.Root : source.Root.DeepCopy();
         Overrides.Apply(root, overrides);
-        return new Builder(root, path, baseDirectory).Build(sha256, overrides);
+        return new Builder(root, source.Path, source.BaseDirectory, memo).Build(source.Sha256, overrides) with
+        {
+            Source = source,
+            Memo = memo,
+        };
     }
 
     private static string Sha256(byte[] bytes) => Convert.ToHexStringLower(SHA256.HashData(bytes));
+
+    private sealed record RateFileKey(string FullPath, string Labels, RateCsvReader.Rules Rules);
 
     [GeneratedRegex("^[A-Za-z_][A-Za-z0-9_]*$")]
     private static partial Regex IdentifierPattern();
 
     /// <summary>Reads the tables of one deck in dependency order (the states before anything per state).</summary>
-    private sealed class Builder(TomlTableNode root, string path, string baseDirectory)
+    private sealed class Builder(TomlTableNode root, string path, string baseDirectory, DeckMemo memo)
     {
         private readonly SourceSpan _deckSpan = SourceSpan.None(path);
         private GridSpec _grid = null!;
         private StateNames _states = null!;
 
-        public Deck Build(string sha256, IReadOnlyList<string> overrides)
+        public Deck Build(string sha256, IReadOnlyList<DeckOverride> overrides)
         {
             var top = new DeckSection("", root, _deckSpan);
             var format = ReadFormat(top);
@@ -104,7 +122,8 @@ public static partial class DeckReader
                 Run = ReadRun(Section("run")),
                 Mechanics = mechanics,
                 Parameters = parameters,
-                Overrides = overrides.ToArray(),
+                Overrides = overrides.Select(o => o.ToString()).ToArray(),
+                AppliedOverrides = overrides.ToArray(),
             };
         }
 
@@ -322,7 +341,13 @@ public static partial class DeckReader
             }
 
             var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);
-            var entries = RateCsvReader.Read(display, Path.GetFullPath(display), csv.ContentSpan, _states, rules);
+            var fullPath = Path.GetFullPath(display);
+
+            // A deck derived by overrides reads the file once: the rows depend only on the file,
+            // the state labels (which resolve its cells) and the declared direction.
+            var entries = memo.GetOrAdd(
+                new RateFileKey(fullPath, string.Join('\n', _grid.Labels), rules),
+                () => RateCsvReader.Read(display, fullPath, csv.ContentSpan, _states, rules));
             return (entries, csv.ContentSpan);
         }
 

@@ -90,6 +90,14 @@ public static class EnergyUnits
     public static double KTFromKelvin(double kelvin, EnergyUnit unit)
         => unit == EnergyUnit.Kelvin ? kelvin : kelvin * Boltzmann / JoulesPerUnit(unit);
 
+    /// <summary>The temperature T = kT / k_B in kelvin of a kT given in <paramref name="unit"/>; null for <see cref="EnergyUnit.Dimensionless"/>, which has no kelvin.</summary>
+    public static double? KelvinFromKT(double kT, EnergyUnit unit) => unit switch
+    {
+        EnergyUnit.Dimensionless => null,
+        EnergyUnit.Kelvin => kT,
+        _ => kT * JoulesPerUnit(unit) / Boltzmann,
+    };
+
     /// <summary>Planck's constant h in <paramref name="unit"/> times seconds.</summary>
     /// <exception cref="ArgumentException">For <see cref="EnergyUnit.Dimensionless"/>.</exception>
     public static double PlanckIn(EnergyUnit unit) => Planck / JoulesPerUnit(unit);

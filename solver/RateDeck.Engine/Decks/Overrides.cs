@@ -2,46 +2,45 @@ using RateDeck.Text;
 namespace RateDeck.Decks;
 
 /// <summary>
-/// Applies <c>--set key=value</c> overrides to a parsed deck before it is read. A key is a
-/// parameter name (<c>alpha=2</c>), a top-level key (<c>title=...</c>) or a dotted deck key
-/// (<c>run.t_end=10</c>, <c>losses.by_state.k1=0.5</c>); the value is parsed as TOML, and a bare
-/// word is taken as a string. Setting one of a table's alternative keys removes the others, so
-/// <c>initial.state=k3</c> replaces <c>equilibrium = true</c>. Errors carry the span
-/// <c>SourceSpan.None("--set key=value")</c>.
+/// Applies <see cref="DeckOverride"/>s to a parsed deck before it is read. The whole key is
+/// checked against the schema (a parameter must exist); setting one of a table's alternative keys
+/// removes the others, so <c>initial.state=k3</c> replaces <c>equilibrium = true</c>. Errors carry
+/// the override's origin, <c>SourceSpan.None("--set key=value")</c>.
 /// </summary>
 internal static class Overrides
 {
-    public static void Apply(TomlTableNode root, IReadOnlyList<string> overrides)
+    public static void Apply(TomlTableNode root, IEnumerable<DeckOverride> overrides)
     {
-        foreach (var text in overrides)
+        foreach (var change in overrides)
         {
-            ApplyOne(root, text);
+            ApplyOne(root, change);
         }
     }
 
-    private static void ApplyOne(TomlTableNode root, string text)
+    private static void ApplyOne(TomlTableNode root, DeckOverride change)
     {
-        var origin = SourceSpan.None("--set " + text);
-        var equals = text.IndexOf('=');
-        if (equals <= 0)
-        {
-            throw new DeckException(origin, "an override is written key=value, like run.t_end=10 or alpha=0.3");
-        }
-
-        var path = text[..equals].Trim().Split('.');
+        var origin = change.Origin;
+        var path = change.Key.Split('.');
         if (path.Any(p => p.Length == 0))
         {
-            throw new DeckException(origin, $"`{text[..equals]}` is not a key; write names joined by dots, like temperature.kT");
+            throw new DeckException(origin, $"`{change.Key}` is not a key; write names joined by dots, like temperature.kT");
         }
 
-        var valueText = text[(equals + 1)..];
-        if (valueText.Trim().Length == 0)
-        {
-            throw new DeckException(origin, "the override has no value after `=`");
-        }
-
-        var target = Target(root, path, origin);
         var key = path[^1];
+        if (change.Value is not { } value)
+        {
+            if (path.Length == 1 && DeckSchema.Tables.ContainsKey(key))
+            {
+                root.Remove(key);
+                return;
+            }
+
+            // A removal creates nothing: a missing table has nothing to remove.
+            Target(root, path, origin, create: false)?.Remove(key);
+            return;
+        }
+
+        var target = Target(root, path, origin, create: true)!;
         if (path.Length == 2 && DeckSchema.Alternatives.TryGetValue(path[0], out var alternatives) && alternatives.Contains(key))
         {
             foreach (var other in alternatives.Where(a => a != key))
@@ -50,11 +49,14 @@ internal static class Overrides
             }
         }
 
-        target.Set(new TomlEntry(key, origin, TomlTree.ParseOverrideValue(valueText, origin)));
+        target.Set(new TomlEntry(key, origin, value));
     }
 
-    /// <summary>The table that receives the override's last key, after checking the whole key against the schema.</summary>
-    private static TomlTableNode Target(TomlTableNode root, string[] path, SourceSpan origin)
+    /// <summary>
+    /// The table that holds the override's last key, after checking the whole key against the
+    /// schema; created along the way when <paramref name="create"/>, else null when absent.
+    /// </summary>
+    private static TomlTableNode? Target(TomlTableNode root, string[] path, SourceSpan origin, bool create)
     {
         if (path.Length == 1)
         {
@@ -108,6 +110,12 @@ internal static class Overrides
         if (path.Length > (byState ? 3 : 2))
         {
             throw new DeckException(origin, $"`{string.Join('.', path)}` goes deeper than the deck's keys; `{table}.{key}` holds a value");
+        }
+
+        if (!create)
+        {
+            var existing = root.Find(table)?.Value as TomlTableNode;
+            return byState && path.Length == 3 ? existing?.Find(key)?.Value as TomlTableNode : existing;
         }
 
         var section = root.GetOrAddTable(table, origin);

@@ -69,14 +69,32 @@ internal sealed class TomlTableNode(SourceSpan span) : TomlNode(span)
         return table;
     }
 
+    /// <summary>
+    /// A copy whose tables are new at every depth, so that overrides applied to it leave this one
+    /// as it was; scalars and arrays, never changed in place, are shared.
+    /// </summary>
+    public TomlTableNode DeepCopy()
+    {
+        var copy = new TomlTableNode(Span);
+        foreach (var entry in Entries)
+        {
+            copy.Set(entry.Value is TomlTableNode table ? entry with { Value = table.DeepCopy() } : entry);
+        }
+
+        return copy;
+    }
+
     public override string Describe() => "a table";
 }
 
 /// <summary>Turns TOML text into <see cref="TomlNode"/>s with one-based spans, using Tomlyn's syntax tree.</summary>
 internal static class TomlTree
 {
-    /// <summary>Parses a deck; a TOML syntax or validation error becomes a <see cref="DeckException"/> at Tomlyn's position.</summary>
-    public static TomlTableNode ParseDocument(string text, string path)
+    /// <summary>
+    /// Parses a deck into its values and Tomlyn's full syntax tree (every comment and blank kept);
+    /// a TOML syntax or validation error becomes a <see cref="DeckException"/> at Tomlyn's position.
+    /// </summary>
+    public static (TomlTableNode Root, DocumentSyntax Syntax) ParseDocument(string text, string path)
     {
         var document = ParseSyntax(text, path);
         var error = document.Diagnostics.FirstOrDefault(d => d.Kind == DiagnosticMessageKind.Error);
@@ -104,7 +122,7 @@ internal static class TomlTree
             AddKeyValues(target, table.Items, locator);
         }
 
-        return root;
+        return (root, document);
     }
 
     /// <summary>Tomlyn's limit of nested arrays and inline tables (it throws at this depth).</summary>

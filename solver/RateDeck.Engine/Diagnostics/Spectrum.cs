@@ -1,6 +1,8 @@
 using System.Numerics;
+using MathNet.Numerics.LinearAlgebra.Double;
 using RateDeck.LinearAlgebra;
 using RateDeck.Rates;
+using RateDeck.Text;
 
 namespace RateDeck.Diagnostics;
 
@@ -29,6 +31,28 @@ public sealed class Spectrum
     /// </summary>
     public const double NullWeightFloor = 1e-6;
 
+    /// <summary>
+    /// The slow modes count as resolved while N eps rho / (slowest rate) is at most this: the
+    /// slowest rate then carries at most about this relative error (a backward-stable solver's
+    /// absolute error is of order N eps rho, Golub and Van Loan as above).
+    /// </summary>
+    public const double SlowModeTolerance = 1e-10;
+
+    /// <summary>
+    /// The tolerance of <see cref="SlowModeTolerance"/> for a spectrum computed in double-double,
+    /// which is taken only when double failed: its slowest rate is reported unless its relative
+    /// error bound exceeds this (the accuracy the stiff-deck tests ask of slow rates).
+    /// </summary>
+    public const double ExtendedSlowModeTolerance = 1e-8;
+
+    /// <summary>
+    /// Largest N decomposed in double-double when the double spectrum cannot resolve the slow modes
+    /// (<see cref="ExtendedSymmetricEigen"/>, about 60 N^3 operations a sweep: 0.3 s at N = 80 on
+    /// one core of the bench machine, docs/stiff-decks.md). Larger decks propagate by the implicit
+    /// integrator instead and report their slow rates as unresolved.
+    /// </summary>
+    public const int ExtendedPrecisionStateLimit = 120;
+
     /// <summary>Inverse-iteration steps for a null vector of a sparse S (see <see cref="ComputeBand"/>).</summary>
     private const int _inverseIterations = 8;
 
@@ -36,24 +60,43 @@ public sealed class Spectrum
     private readonly double[][] _nullBasis;
     private readonly int _nullDimension;
 
-    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, double[][]? nullBasis = null)
+    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, double[][]? nullBasis = null, ExtendedSymmetricEigenDecomposition? extended = null)
     {
         _logEquilibrium = rates.States.LogEquilibrium;
         Path = path;
         PathReason = reason;
         Symmetric = symmetric;
         General = general;
+        Extended = extended;
         Values = [.. raw.OrderBy(v => v.Real).ThenBy(v => v.Imaginary)];
         Eigenvalues = [.. Values.Select(v => v.Real)];
         SpectralRadius = raw.Length == 0 ? 0 : raw.Max(Complex.Abs);
-        ZeroTolerance = Precision.ZeroEigenvalueTolerance(SpectralRadius, raw.Length);
+        var epsilon = extended is null ? Precision.MachineEpsilon : 2 * DoubleDouble.Epsilon;
+        AbsoluteAccuracy = raw.Length * epsilon * SpectralRadius;
+        ZeroTolerance = Precision.ZeroEigenvalueFactor * AbsoluteAccuracy;
         var nullColumns = Enumerable.Range(0, raw.Length).Where(c => Complex.Abs(raw[c]) <= ZeroTolerance).ToList();
         _nullDimension = nullColumns.Count;
         _nullBasis = nullBasis ?? [.. nullColumns.Select(c => RealNullVector(symmetric, general, c))];
         var decaying = raw.Where(v => Complex.Abs(v) > ZeroTolerance && -v.Real > ZeroTolerance).ToList();
-        SlowestRate = decaying.Count == 0 ? null : decaying.Min(v => -v.Real);
         NonDecayingCount = raw.Length - nullColumns.Count - decaying.Count;
         MaxImaginaryPart = raw.Length == 0 ? 0 : raw.Max(v => Math.Abs(v.Imaginary));
+        StructuralNullDimension = TransitionGraph.Classify(rates).LossFreeCount;
+        var slowest = decaying.Count == 0 ? (double?)null : decaying.Min(v => -v.Real);
+        if (_nullDimension > StructuralNullDimension)
+        {
+            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy (N eps rho = {Format.Number(AbsoluteAccuracy)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
+        }
+        else if (_nullDimension < StructuralNullDimension)
+        {
+            Unresolved = $"only {Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss";
+        }
+        else if (slowest is { } rate && AbsoluteAccuracy / rate > (extended is null ? SlowModeTolerance : ExtendedSlowModeTolerance))
+        {
+            Unresolved = $"the slowest rate {Format.Number(rate)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Number(AbsoluteAccuracy)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
+        }
+
+        // A slowest rate read from a spectrum that lost modes to rounding would be a faster mode's: report none.
+        SlowestRate = _nullDimension > StructuralNullDimension ? null : slowest;
     }
 
     /// <summary>The path taken.</summary>
@@ -77,7 +120,41 @@ public sealed class Spectrum
     /// <summary>Number of zero eigenvalues within <see cref="ZeroTolerance"/>.</summary>
     public int NullDimension => _nullDimension;
 
-    /// <summary>Decay rate -Re(lambda) of the slowest decaying mode (beyond the zero tolerance); null when no mode decays.</summary>
+    /// <summary>
+    /// The null-space dimension the structure implies: the number of closed classes without loss
+    /// (<see cref="TransitionGraph"/>, from which pairs carry a rate). A generator has exactly this
+    /// many zero eigenvalues; a numerical count that differs means slow modes were lost in rounding.
+    /// </summary>
+    public int StructuralNullDimension { get; }
+
+    /// <summary>N u rho: the absolute accuracy of the eigenvalues on the path taken, u = 2^-52 in double or 2^-103 in double-double.</summary>
+    public double AbsoluteAccuracy { get; }
+
+    /// <summary>
+    /// Null when the spectrum resolves every mode (its zero count matches <see cref="StructuralNullDimension"/>
+    /// and the slowest rate is above <see cref="AbsoluteAccuracy"/> / <see cref="SlowModeTolerance"/>);
+    /// else one line saying what is not resolved. Propagators built on such a spectrum are not trusted.
+    /// </summary>
+    public string? Unresolved { get; }
+
+    /// <summary>True when <see cref="Unresolved"/> is null.</summary>
+    public bool IsResolved => Unresolved is null;
+
+    /// <summary>
+    /// True when the zero count differs from <see cref="StructuralNullDimension"/>: modes were lost
+    /// in rounding (or a null mode was not found), so no eigen path built on this spectrum is
+    /// trusted. A spectrum may be unresolved only in the relative accuracy of its slowest rate
+    /// and still serve propagation over a short enough horizon (<see cref="Propagation.ExactPropagatorChoice.HorizonTolerance"/>).
+    /// </summary>
+    public bool LostModes => _nullDimension != StructuralNullDimension;
+
+    /// <summary>
+    /// The double-double decomposition of S when the double one could not resolve the slow modes
+    /// (see <see cref="Compute(RateMatrix, ILinearAlgebra, BalanceReport?)"/>); else null.
+    /// </summary>
+    public ExtendedSymmetricEigenDecomposition? Extended { get; }
+
+    /// <summary>Decay rate -Re(lambda) of the slowest decaying mode (beyond the zero tolerance); null when no mode decays, or when the spectrum counts more zeros than the structure has (the slow modes were lost).</summary>
     public double? SlowestRate { get; }
 
     /// <summary>Non-zero eigenvalues whose real part is not below -<see cref="ZeroTolerance"/> (oscillating or growing modes); a sane generator has none.</summary>
@@ -130,7 +207,18 @@ public sealed class Spectrum
         // S is built only to be decomposed, so the provider may work in its storage.
         var built = SymmetrizedGenerator.Build(rates);
         var symmetric = algebra.SymmetricEigenOverwriting(built);
-        return new Spectrum(rates, SpectrumPath.Symmetrized, reason, [.. symmetric.Values.Select(v => new Complex(v, 0))], symmetric, null);
+        var spectrum = new Spectrum(rates, SpectrumPath.Symmetrized, reason, [.. symmetric.Values.Select(v => new Complex(v, 0))], symmetric, null);
+        if (spectrum.IsResolved || rates.Origin != BalanceOrigin.CompletedByDetailedBalance || rates.Count > ExtendedPrecisionStateLimit)
+        {
+            return spectrum;
+        }
+
+        var extended = ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
+        var rounded = new SymmetricEigenDecomposition(
+            [.. extended.Values.Select(v => v.Value)],
+            DenseMatrix.Create(rates.Count, rates.Count, (i, m) => extended.Vectors[(m * rates.Count) + i].Value));
+        var extendedReason = $"{reason} in double-double ({extended.Sweeps} Jacobi sweeps), because in double {spectrum.Unresolved}";
+        return new Spectrum(rates, SpectrumPath.Symmetrized, extendedReason, [.. rounded.Values.Select(v => new Complex(v, 0))], rounded, null, extended: extended);
     }
 
     /// <summary>

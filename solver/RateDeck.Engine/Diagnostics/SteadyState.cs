@@ -57,7 +57,7 @@ public sealed record SteadyStateResult(
 /// rate from t straight into class c (the time integral of exp(K_TT t) is -K_TT^(-1)).</item>
 /// <item>Each closed class without loss keeps the mass carried into it, spread as its stationary
 /// law: pi restricted to the class on the symmetric path (detailed balance), else the solution of
-/// K_CC p = 0 with sum p = 1 (one redundant row of K_CC replaced by ones). Classes with loss,
+/// K_CC p = 0 with sum p = 1 by the Grassmann-Taksar-Heyman elimination. Classes with loss,
 /// and sinks on transient states, remove mass.</item>
 /// <item>Pumping that can reach a closed class without loss feeds it for ever: no steady state, the
 /// class population grows linearly. Otherwise the leaking states U (all states outside the
@@ -108,7 +108,7 @@ public static class SteadyState
         {
             foreach (var kept in lossFree)
             {
-                var law = StationaryLaw(rates, spectrum, kept.Class, algebra);
+                var law = StationaryLaw(rates, spectrum, kept.Class);
                 for (var k = 0; k < law.Length; k++)
                 {
                     populations[kept.Class.States[k]] = kept.Mass * law[k];
@@ -159,22 +159,25 @@ public static class SteadyState
     private static double CarriedMass(double[] amounts, ClosedClass closedClass, int[] transient, double[][] absorption, int classIndex) =>
         closedClass.States.Sum(s => amounts[s]) + transient.Select((t, a) => amounts[t] * absorption[a][classIndex]).Sum();
 
-    private static double[] StationaryLaw(RateMatrix rates, Spectrum spectrum, ClosedClass closedClass, ILinearAlgebra algebra)
-    {
-        if (spectrum.Path == SpectrumPath.Symmetrized)
-        {
-            return LogSpace.NormalizedOn(rates.States.LogEquilibrium, closedClass.States);
-        }
+    /// <summary>
+    /// The stationary law of a loss-free closed class: pi restricted to the class on the symmetric
+    /// path (detailed balance, exact in log space), else the subtraction-free elimination of
+    /// <see cref="Diagnostics.StationaryLaw"/>.
+    /// </summary>
+    private static double[] StationaryLaw(RateMatrix rates, Spectrum spectrum, ClosedClass closedClass) =>
+        spectrum.Path == SpectrumPath.Symmetrized
+            ? LogSpace.NormalizedOn(rates.States.LogEquilibrium, closedClass.States)
+            : Diagnostics.StationaryLaw.OfClass(rates, closedClass.States);
 
-        // Rows of K_CC sum to zero in a loss-free closed class, so the last one is redundant: replace it by sum p = 1.
-        var states = closedClass.States;
-        var last = states.Length - 1;
-        var bordered = DenseMatrix.Create(states.Length, states.Length, (a, b) => a == last ? 1.0 : rates.Generator[states[a], states[b]]);
-        var unit = DenseMatrix.Create(states.Length, 1, (a, _) => a == last ? 1.0 : 0.0);
-        return algebra.Solve(bordered, unit).Column(0).ToArray();
-    }
-
-    /// <summary>Writes x = -K_UU^(-1) s_U into <paramref name="populations"/> for the states U outside <paramref name="conserving"/>.</summary>
+    /// <summary>
+    /// Writes x = -K_UU^(-1) s_U into <paramref name="populations"/> for the states U outside
+    /// <paramref name="conserving"/>. -K_UU is a column diagonally dominant M-matrix whose column
+    /// excess is each state's loss plus its rates into the conserving classes, so the dense solve
+    /// takes the diagonal from those sums (<see cref="MMatrixFactorization"/>), not from the stored
+    /// K_jj, and with s &gt;= 0 every population comes out relatively accurate at any stiffness.
+    /// A matrix with a negative off-diagonal rate (a deck that fails its check) is solved by the
+    /// provider's LU instead.
+    /// </summary>
     private static void SolveLeakingStates(RateMatrix rates, HashSet<int> conserving, double[] populations, ILinearAlgebra algebra)
     {
         var leaking = Enumerable.Range(0, rates.Count).Where(i => !conserving.Contains(i)).ToArray();
@@ -184,15 +187,64 @@ public static class SteadyState
             return;
         }
 
-        var block = leaking.Length == rates.Count
-            ? rates.Generator
-            : DenseMatrix.Create(leaking.Length, leaking.Length, (a, b) => rates.Generator[leaking[a], leaking[b]]);
-        var source = DenseMatrix.Create(leaking.Length, 1, (a, _) => -rates.Pumping[leaking[a]]);
-        var solution = algebra.Solve(block, source);
+        double[] solution;
+        var k = rates.Generator;
+        if (HasNegativeOffDiagonal(rates))
+        {
+            var block = leaking.Length == rates.Count
+                ? k
+                : DenseMatrix.Create(leaking.Length, leaking.Length, (a, b) => k[leaking[a], leaking[b]]);
+            solution = algebra.Solve(block, DenseMatrix.Create(leaking.Length, 1, (a, _) => -rates.Pumping[leaking[a]])).Column(0).ToArray();
+        }
+        else
+        {
+            var u = leaking.Length;
+            var position = new int[rates.Count];
+            Array.Fill(position, -1);
+            for (var a = 0; a < u; a++)
+            {
+                position[leaking[a]] = a;
+            }
+
+            var offDiagonal = new double[u * u];
+            var excess = new double[u];
+            for (var b = 0; b < u; b++)
+            {
+                var from = leaking[b];
+                excess[b] = rates.Loss[from];
+                for (var to = 0; to < rates.Count; to++)
+                {
+                    if (to == from)
+                    {
+                        continue;
+                    }
+
+                    if (position[to] >= 0)
+                    {
+                        offDiagonal[(b * u) + position[to]] = k[to, from];
+                    }
+                    else
+                    {
+                        excess[b] += k[to, from];
+                    }
+                }
+            }
+
+            solution = [.. leaking.Select(i => rates.Pumping[i])];
+            MMatrixFactorization.Factor(u, offDiagonal, excess).Solve(solution);
+        }
+
         for (var a = 0; a < leaking.Length; a++)
         {
-            populations[leaking[a]] = solution[a, 0];
+            populations[leaking[a]] = solution[a];
         }
+    }
+
+    private static bool HasNegativeOffDiagonal(RateMatrix rates)
+    {
+        var negative = false;
+        rates.ForEachOffDiagonal((_, _, rate) => negative |= rate < 0);
+        return negative;
     }
 
     /// <summary>

@@ -27,6 +27,8 @@ public sealed record StepLimit(string Name, double MaxStep, double? Steps, strin
 /// <param name="Rk4Safe">Whether <paramref name="Dt"/> is within the RK4 stability limit.</param>
 /// <param name="PositivityPreserving">Whether forward Euler with <paramref name="Dt"/> keeps every population non-negative.</param>
 /// <param name="Recommendation">One plain line: explicit RK4 or exact propagation, and why.</param>
+/// <param name="StepsAtDt">ceil(horizon / dt): explicit steps to the horizon at the given dt; null without a dt or a horizon.</param>
+/// <param name="WithinBudget">Whether <paramref name="StepsAtDt"/> is within <see cref="StepLimits.ExplicitStepBudget"/>; null without a count.</param>
 public sealed record StiffnessReport(
     double SpectralRadius,
     double? SlowestRate,
@@ -42,7 +44,9 @@ public sealed record StiffnessReport(
     bool? EulerSafe,
     bool? Rk4Safe,
     bool? PositivityPreserving,
-    string Recommendation)
+    string Recommendation,
+    double? StepsAtDt,
+    bool? WithinBudget)
 {
     /// <summary>The four limits in a fixed order, for tables.</summary>
     public IReadOnlyList<StepLimit> Limits => [EulerStable, Positivity, RuleOfThumb, Rk4Stable];
@@ -70,6 +74,13 @@ public sealed record StiffnessReport(
 /// </summary>
 public static class StepLimits
 {
+    /// <summary>
+    /// Most explicit steps a run or a step verdict accepts: 10^7 steps are seconds to minutes on a
+    /// small deck, while a stiff deck can ask for 10^15 or more (hours to ages); above it explicit
+    /// stepping is declined (run) or refused (stiffness --dt, exit 3) with the count.
+    /// </summary>
+    public const double ExplicitStepBudget = 1e7;
+
     /// <summary>Flops of one explicit RK4 step, per N^2.</summary>
     public const double Rk4FlopsPerN2 = 8;
 
@@ -109,8 +120,9 @@ public static class StepLimits
 
         bool? Within(StepLimit limit) => dt is { } step ? step <= limit.MaxStep : null;
         var recommendation = Recommend(spectrum, rates.Count, rk4, horizon, endTime is not null, stiffness, dt);
+        var stepsAtDt = dt is { } given && horizon is { } end ? Math.Ceiling(end / given) : (double?)null;
         return new StiffnessReport(rho, slowest, stiffness, maxDiagonal, euler, positivity, thumb, rk4, horizon, endTime is not null,
-            dt, Within(euler), Within(rk4), Within(positivity), recommendation);
+            dt, Within(euler), Within(rk4), Within(positivity), recommendation, stepsAtDt, stepsAtDt is { } count ? count <= ExplicitStepBudget : null);
     }
 
     /// <summary>R(z) of classical RK4.</summary>
@@ -135,8 +147,10 @@ public static class StepLimits
         var explicitCheaper = steps * Rk4FlopsPerN2 < exactFlops;
         var prefix = unsafeDt ? $"dt = {Format.Number(dt!.Value)} is unstable for RK4 (limit {Format.Number(rk4.MaxStep)}); " : "";
         var target = horizonIsEnd ? $"t_end = {Format.Number(t)}" : $"t = 1/slowest rate = {Format.Number(t)}";
-        var verdict = explicitCheaper ? "cheaper than exact propagation" : "exact propagation is cheaper";
-        var ratio = stiffness is { } r ? $"stiffness ratio {Format.Number(r)}" : "no decaying mode";
+        var verdict = steps > ExplicitStepBudget
+            ? $"above the budget of {Format.Number(ExplicitStepBudget)} explicit steps, so use exact propagation (run takes it and declines the explicit method)"
+            : explicitCheaper ? "cheaper than exact propagation" : "exact propagation is cheaper";
+        var ratio = stiffness is { } r ? $"stiffness ratio {Format.Number(r)}" : spectrum.IsResolved ? "no decaying mode" : "slow modes not resolved in double precision";
         return $"{prefix}explicit RK4 with dt <= {Format.Number(step)} needs {Format.Count(steps)} steps to {target}; {verdict} ({ratio})";
     }
 

@@ -20,7 +20,11 @@ public sealed record StateClasses(IReadOnlyList<ClosedClass> Closed, int[] Trans
 }
 
 /// <summary>
-/// The transition graph of K: an edge j -> i whenever K_ij &gt; 0 (i != j). Its strongly connected
+/// The transition graph of K, from its structure (which pairs carry a rate), never from underflow:
+/// an edge j -> i whenever K_ij &gt; 0 (i != j), and, for a matrix completed by detailed balance,
+/// whenever K_ji &gt; 0 as well, since the completed partner K_ij = K_ji pi_i / pi_j is positive in
+/// exact arithmetic even where it underflowed to zero in double (two states 1400 kT apart with a
+/// measured downward rate are one class). Its strongly connected
 /// components without an outgoing edge are the closed classes (SPEC 2). Tarjan's algorithm
 /// (SIAM J. Comput. 1 (1972) 146) runs with an explicit stack, so N = 20,000 or more cannot
 /// overflow the call stack, and it reads successors straight from the dense columns of K, so it
@@ -89,8 +93,11 @@ public static class TransitionGraph
     }
 
     /// <summary>The successor lists of K: from the stored columns when sparse, else by scanning the dense columns.</summary>
-    private static ISuccessors Successors(RateMatrix rates) =>
-        rates.Sparse is { } sparse ? new SparseSuccessors(sparse) : new DenseSuccessors(rates);
+    private static ISuccessors Successors(RateMatrix rates)
+    {
+        var twoWay = rates.Origin == BalanceOrigin.CompletedByDetailedBalance;
+        return rates.Sparse is { } sparse ? new SparseSuccessors(sparse, twoWay) : new DenseSuccessors(rates, twoWay);
+    }
 
     /// <summary>
     /// Strongly connected components (component id per node) and whether each component is closed
@@ -196,8 +203,11 @@ internal interface ISuccessors
     int Next(int node, ref int cursor);
 }
 
-/// <summary>Successors j -> i where K_ij &gt; 0, scanned from the contiguous column j of the column-major K.</summary>
-internal sealed class DenseSuccessors(RateMatrix rates) : ISuccessors
+/// <summary>
+/// Successors j -> i where K_ij &gt; 0, scanned from the contiguous column j of the column-major K;
+/// with <paramref name="twoWay"/> also where K_ji &gt; 0 (a completed partner that underflowed).
+/// </summary>
+internal sealed class DenseSuccessors(RateMatrix rates, bool twoWay) : ISuccessors
 {
     private readonly double[] _values = rates.Generator.Values;
 
@@ -209,7 +219,7 @@ internal sealed class DenseSuccessors(RateMatrix rates) : ISuccessors
         while (cursor < Count)
         {
             var row = cursor++;
-            if (row != node && _values[offset + row] > 0)
+            if (row != node && (_values[offset + row] > 0 || (twoWay && _values[(row * Count) + node] > 0)))
             {
                 return row;
             }
@@ -219,19 +229,39 @@ internal sealed class DenseSuccessors(RateMatrix rates) : ISuccessors
     }
 }
 
-/// <summary>Successors j -> i where K_ij &gt; 0, from the stored entries of column j.</summary>
-internal sealed class SparseSuccessors(SparseGenerator sparse) : ISuccessors
+/// <summary>
+/// Successors j -> i where K_ij &gt; 0 within the band of column j; with <paramref name="twoWay"/>
+/// also where K_ji &gt; 0 (a completed partner that underflowed, and so was not stored).
+/// </summary>
+internal sealed class SparseSuccessors(SparseGenerator sparse, bool twoWay) : ISuccessors
 {
     public int Count => sparse.Count;
 
     public int Next(int node, ref int cursor)
     {
-        var end = sparse.ColumnStarts[node + 1] - sparse.ColumnStarts[node];
-        while (cursor < end)
+        if (!twoWay)
         {
-            var p = sparse.ColumnStarts[node] + cursor++;
-            var row = sparse.RowIndices[p];
-            if (row != node && sparse.Values[p] > 0)
+            var end = sparse.ColumnStarts[node + 1] - sparse.ColumnStarts[node];
+            while (cursor < end)
+            {
+                var p = sparse.ColumnStarts[node] + cursor++;
+                var row = sparse.RowIndices[p];
+                if (row != node && sparse.Values[p] > 0)
+                {
+                    return row;
+                }
+            }
+
+            return -1;
+        }
+
+        // The cursor walks the band rows node - b .. node + b.
+        var first = Math.Max(0, node - sparse.Bandwidth);
+        var last = Math.Min(Count - 1, node + sparse.Bandwidth);
+        while (first + cursor <= last)
+        {
+            var row = first + cursor++;
+            if (row != node && (sparse[row, node] > 0 || sparse[node, row] > 0))
             {
                 return row;
             }

@@ -15,9 +15,12 @@ public static class ExpressionCompiler
 {
     /// <summary>
     /// Compiles <paramref name="text"/>; throws <see cref="DeckException"/> with the exact position of a problem.
-    /// Constant subtrees are folded at compile time; the rest becomes a compiled delegate that
-    /// allocates nothing when evaluated. Arithmetic is IEEE double: log(0) is -infinity,
-    /// sqrt(-1) is NaN, and checking results for finiteness is the caller's business.
+    /// Subtrees of literals and constants (2*pi, gamma(0.5)) are folded at compile time; every
+    /// name is a variable read from the values array, so a deck compiles each expression once with
+    /// kT and its parameters among the variables, and a new kT or parameter value needs no new
+    /// compilation. The compiled delegate allocates nothing when evaluated. Arithmetic is IEEE
+    /// double: log(0) is -infinity, sqrt(-1) is NaN, and checking results for finiteness is the
+    /// caller's business.
     /// </summary>
     /// <param name="text">The expression as written in the deck.</param>
     /// <param name="origin">The deck position of the first character of <paramref name="text"/>.</param>
@@ -28,26 +31,10 @@ public static class ExpressionCompiler
     /// </param>
     /// <exception cref="ArgumentException">A variable name is not an identifier, repeated or reserved.</exception>
     public static CompiledExpression Compile(string text, SourceSpan origin, IReadOnlyList<string> variables)
-        => Compile(text, origin, variables, FrozenDictionary<string, double>.Empty);
-
-    /// <summary>
-    /// Compiles <paramref name="text"/> with some names bound to fixed values: the deck
-    /// parameters during one run, say. They are folded like literals, so the parts of a kernel
-    /// that depend only on parameters (gamma(1 + s), 2*s^2) are computed once instead of once per
-    /// pair of states. A parameter does not count as a used variable. Errors as in
-    /// <see cref="Compile(string, SourceSpan, IReadOnlyList{string})"/>.
-    /// </summary>
-    /// <param name="text">The expression as written in the deck.</param>
-    /// <param name="origin">The deck position of the first character of <paramref name="text"/>.</param>
-    /// <param name="variables">The names whose values are passed to <see cref="CompiledExpression.Evaluate"/>, in order.</param>
-    /// <param name="parameters">Names with values fixed at compile time; distinct from the variables.</param>
-    /// <exception cref="ArgumentException">A name is not an identifier, repeated or reserved.</exception>
-    public static CompiledExpression Compile(
-        string text, SourceSpan origin, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
     {
-        CheckNames(variables.Concat(parameters.Keys));
+        CheckNames(variables);
         var source = new ExpressionSource(text, origin);
-        var (tree, used) = Parser.Parse(source, variables, parameters);
+        var (tree, used) = Parser.Parse(source, variables);
         var values = Expression.Parameter(typeof(double[]), "values");
         var evaluate = Expression.Lambda<Func<double[], double>>(tree.Emit(values), values).Compile();
         return new CompiledExpression(text, Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), evaluate);

@@ -37,16 +37,14 @@ internal sealed class Parser
     private readonly ExpressionSource _source;
     private readonly Lexer _lexer;
     private readonly Dictionary<string, int> _variables;
-    private readonly IReadOnlyDictionary<string, double> _parameters;
     private readonly HashSet<string> _used = new(StringComparer.Ordinal);
     private Token _previous;
     private Token _current;
     private int _nesting;
 
-    private Parser(ExpressionSource source, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
+    private Parser(ExpressionSource source, IReadOnlyList<string> variables)
     {
         _source = source;
-        _parameters = parameters;
         _lexer = new Lexer(source);
         _variables = new Dictionary<string, int>(StringComparer.Ordinal);
         for (var k = 0; k < variables.Count; k++)
@@ -58,14 +56,10 @@ internal sealed class Parser
     /// <summary>The names reserved for constants.</summary>
     public static IEnumerable<string> ConstantNames => _constants.Keys;
 
-    /// <summary>
-    /// Parses the whole text; returns the folded tree and the variables it reads. Parameters are
-    /// names with fixed values, folded like literals.
-    /// </summary>
-    public static (ExpressionNode Tree, IReadOnlySet<string> UsedVariables) Parse(
-        ExpressionSource source, IReadOnlyList<string> variables, IReadOnlyDictionary<string, double> parameters)
+    /// <summary>Parses the whole text; returns the folded tree and the variables it reads.</summary>
+    public static (ExpressionNode Tree, IReadOnlySet<string> UsedVariables) Parse(ExpressionSource source, IReadOnlyList<string> variables)
     {
-        var parser = new Parser(source, variables, parameters);
+        var parser = new Parser(source, variables);
         parser.Advance();
         if (parser._current.Kind == TokenKind.End)
         {
@@ -216,7 +210,7 @@ internal sealed class Parser
             _used.Add(name.Text);
             return new VariableNode(name.Text, index, name.Offset);
         }
-        if (_parameters.TryGetValue(name.Text, out var value) || _constants.TryGetValue(name.Text, out value))
+        if (_constants.TryGetValue(name.Text, out var value))
         {
             return new NumberNode(value, name.Offset);
         }
@@ -243,8 +237,8 @@ internal sealed class Parser
             : $"unknown function '{name}': the functions are {string.Join(", ", DeckFunction.All.Keys)}";
     }
 
-    /// <summary>The variables and parameters: to the deck's author they are all names with values.</summary>
-    private IEnumerable<string> VariableNames => _variables.Keys.Concat(_parameters.Keys);
+    /// <summary>The names with values (a deck's parameters and kT among them).</summary>
+    private IEnumerable<string> VariableNames => _variables.Keys;
 
     private string DescribeVariables() => VariableNames.Any() ? string.Join(", ", VariableNames) : "there are none";
 

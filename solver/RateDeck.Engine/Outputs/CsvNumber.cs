@@ -5,7 +5,8 @@ namespace RateDeck.Outputs;
 /// <summary>
 /// How numbers are written to and read from RateDeck's CSV files: invariant culture, the shortest
 /// text that parses back to the identical double (format "R", which on .NET Core 3.0 and later
-/// round-trips every double exactly, negative zero and subnormals included), and the non-finite
+/// round-trips every double exactly, subnormals included; negative zero is written as 0, the sign
+/// of a zero being rounding noise that readers should not see), and the non-finite
 /// values as <c>inf</c>, <c>-inf</c> and <c>nan</c>, the spellings that NumPy, pandas and most
 /// spreadsheet-free tools read.
 /// </summary>
@@ -26,6 +27,7 @@ public static class CsvNumber
         double.PositiveInfinity => PositiveInfinity,
         double.NegativeInfinity => NegativeInfinity,
         _ when double.IsNaN(value) => NotANumber,
+        0.0 => "0",
         _ => value.ToString("R", CultureInfo.InvariantCulture),
     };
 

@@ -29,9 +29,6 @@ internal static class PlotCanvas
     /// <summary>DejaVu Sans when installed, else the first family found, null when there is none.</summary>
     public static string? FontFamily { get; } = FindFont();
 
-    /// <summary>A number for a label: invariant culture, four significant digits.</summary>
-    public static string Number(double value) => value.ToString("G4", CultureInfo.InvariantCulture);
-
     /// <summary>Colour and line pattern of series <paramref name="index"/>: ten colours, then the next pattern.</summary>
     public static (Color Color, LinePattern Pattern) Style(int index) =>
         (SeriesPalette.GetColor(index % SeriesPalette.Colors.Length), Patterns[index / SeriesPalette.Colors.Length % Patterns.Length]);

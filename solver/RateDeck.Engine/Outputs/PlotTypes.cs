@@ -68,11 +68,11 @@ public sealed record RateLimitLine(string Label, double Magnitude)
     /// Forward Euler with step <paramref name="dt"/>: stable for |1 + lambda dt| &lt;= 1, so on the
     /// negative real axis up to |lambda| = 2 / dt (SPEC 2; common practice).
     /// </summary>
-    public static RateLimitLine ForwardEuler(double dt) => new($"Euler, dt = {PlotCanvas.Number(dt)}: 2/dt", 2.0 / dt);
+    public static RateLimitLine ForwardEuler(double dt) => new($"Euler, dt = {Text.Format.Number(dt)}: 2/dt", 2.0 / dt);
 
     /// <summary>
     /// Classical RK4 with step <paramref name="dt"/>: its stability region meets the negative real
     /// axis at lambda dt = -<see cref="StepLimits.Rk4RealAxisLimit"/>, so the line is there over dt.
     /// </summary>
-    public static RateLimitLine RungeKutta4(double dt) => new($"RK4, dt = {PlotCanvas.Number(dt)}: {PlotCanvas.Number(StepLimits.Rk4RealAxisLimit)}/dt", StepLimits.Rk4RealAxisLimit / dt);
+    public static RateLimitLine RungeKutta4(double dt) => new($"RK4, dt = {Text.Format.Number(dt)}: {Text.Format.Number(StepLimits.Rk4RealAxisLimit)}/dt", StepLimits.Rk4RealAxisLimit / dt);
 }

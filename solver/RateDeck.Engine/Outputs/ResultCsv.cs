@@ -66,37 +66,40 @@ public static class ResultCsv
     }
 
     /// <summary>
-    /// Real eigenvalues of the generator: columns <c>index</c> (zero-based, in the given order),
+    /// Real eigenvalues of the generator: columns <c>mode</c> (numbered from 1, in the given order),
     /// <c>eigenvalue</c> (per time unit) and <c>relaxation_time</c> = 1 / |lambda| (time unit),
     /// <c>inf</c> for a zero mode, i.e. |lambda| &lt;= <paramref name="zeroTolerance"/>.
     /// </summary>
     public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<double> eigenvalues, string timeUnit, double zeroTolerance = 0)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
-        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["index", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["mode", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
         {
-            row.WriteField(k.ToString(CultureInfo.InvariantCulture));
+            row.WriteField(ModeNumber(k));
             row.WriteField(CsvNumber.Format(eigenvalues[k]));
             row.WriteField(CsvNumber.Format(RelaxationTime(eigenvalues[k], zeroTolerance)));
         });
     }
 
     /// <summary>
-    /// Complex eigenvalues (a generator without detailed balance): columns <c>index</c>,
+    /// Complex eigenvalues (a generator without detailed balance): columns <c>mode</c> (from 1),
     /// <c>eigenvalue_re</c>, <c>eigenvalue_im</c> and <c>relaxation_time</c> = 1 / |Re lambda|, the
     /// decay time of the mode's amplitude, <c>inf</c> when |Re lambda| &lt;= <paramref name="zeroTolerance"/>.
     /// </summary>
     public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<Complex> eigenvalues, string timeUnit, double zeroTolerance = 0)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
-        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["index", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["mode", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
         {
-            row.WriteField(k.ToString(CultureInfo.InvariantCulture));
+            row.WriteField(ModeNumber(k));
             row.WriteField(CsvNumber.Format(eigenvalues[k].Real));
             row.WriteField(CsvNumber.Format(eigenvalues[k].Imaginary));
             row.WriteField(CsvNumber.Format(RelaxationTime(eigenvalues[k].Real, zeroTolerance)));
         });
     }
+
+    /// <summary>Modes are numbered from 1 in files, as a reader counts them.</summary>
+    private static string ModeNumber(int k) => (k + 1).ToString(CultureInfo.InvariantCulture);
 
     /// <summary>
     /// The steady state beside the equilibrium: columns <c>label</c>, <c>coordinate</c>,

@@ -9,6 +9,13 @@ namespace RateDeck.Pipeline;
 /// The stages every verb and the fitter share, in order: deck text -> validated deck -> state
 /// space -> rate matrix. Later stages (diagnostics, propagators, outputs) take the result.
 /// </summary>
+/// <remarks>
+/// For many trials of one deck (a fit, a sweep) read it once and derive each trial with
+/// <see cref="LoadedDeck.With"/> or <see cref="Deck.With(IEnumerable{DeckOverride})"/>: the
+/// overrides are typed and validated like the deck, the TOML is not parsed again, rate files are
+/// not read again, expressions are not compiled again (kT and parameters are run-time inputs), and
+/// the mechanics of a Lagrangian is derived again only when a value it reads, h or an energy changed.
+/// </remarks>
 public static class DeckPipeline
 {
     /// <summary>Reads, validates and assembles the deck at <paramref name="path"/>; throws <see cref="DeckException"/> on bad input.</summary>
@@ -22,8 +29,7 @@ public static class DeckPipeline
     /// </summary>
     public static LoadedDeck Assemble(Deck deck, ILinearAlgebra algebra)
     {
-        var mechanics = new MechanicsStage();
-        var states = StateSpaceBuilder.Build(deck, mechanics.DeriveWeights);
+        var states = StateSpaceBuilder.Build(deck);
         var rates = RateMatrixAssembler.Assemble(deck, states);
         // P(0) is part of the deck: every verb refuses a bad one, not only those that propagate.
         var initial = RunSetup.InitialPopulations(deck, states);
@@ -32,6 +38,6 @@ public static class DeckPipeline
             throw new DeckException(deck.Initial.Span, "every initial population is 0 and nothing is pumped in, so every population stays 0; give a state, or populations above 0");
         }
 
-        return new LoadedDeck(deck, states, rates, algebra) { Mechanics = mechanics.Result };
+        return new LoadedDeck(deck, states, rates, algebra);
     }
 }

@@ -28,6 +28,8 @@ public sealed class DeckRun
     private FixedStepPropagator? _explicitPropagator;
     private Trajectory? _explicit;
     private SteadyStateResult? _steady;
+    private ImplicitSdirkPropagator? _implicitPropagator;
+    private Trajectory? _implicit;
     private AccurateStep? _accurate;
     private bool _accurateChosen;
 
@@ -101,20 +103,50 @@ public sealed class DeckRun
     /// <summary>Whether explicit and exact agree within the deck's run.accuracy (of the total); null with <see cref="RunOptions.ExactOnly"/>.</summary>
     public bool? AccuracyMet => Difference is { } difference ? difference.MaxRelativeToTotal <= Loaded.Deck.Run.Accuracy : null;
 
-    /// <summary>Whether <see cref="ExplicitStep"/> can be trusted with <see cref="Method"/>.</summary>
+    /// <summary>
+    /// Whether <see cref="ExplicitStep"/> can be trusted with <see cref="Method"/>: within the
+    /// stability limit, and, when the caller chose the method or the step, within
+    /// <see cref="Diagnostics.StepLimits.ExplicitStepBudget"/> steps to <see cref="RunOptions.EndTime"/> (else the last output time)
+    /// (a step the deck chose is declined instead, <see cref="ExplicitDeclined"/>).
+    /// </summary>
     public StepVerdict StepVerdict
     {
         get
         {
             var dt = ExplicitStep;
             var limit = StabilityLimit;
-            if (dt <= limit)
+            var unit = Loaded.Deck.TimeUnit;
+            if (dt > limit)
             {
-                return new StepVerdict(true, null);
+                return new StepVerdict(false, $"dt = {Format.Number(dt)} {unit} is above the {ExplicitPropagatorChoice.MethodName(Method)} stability limit {Format.Number(limit)} {unit} for this deck");
             }
 
-            var unit = Loaded.Deck.TimeUnit;
-            return new StepVerdict(false, $"dt = {Format.Number(dt)} {unit} is above the {ExplicitPropagatorChoice.MethodName(Method)} stability limit {Format.Number(limit)} {unit} for this deck");
+            return OverBudget is { } budget && (Options.Dt is not null || MethodFromOptions)
+                ? new StepVerdict(false, budget)
+                : new StepVerdict(true, null);
+        }
+    }
+
+    /// <summary>
+    /// Why the explicit method is declined: its step count to the last output time exceeds
+    /// <see cref="Diagnostics.StepLimits.ExplicitStepBudget"/> and neither the method nor the step
+    /// was chosen by the caller (a stiff deck at the deck's own step would run for hours); null
+    /// when it runs, or with <see cref="RunOptions.ExactOnly"/>.
+    /// </summary>
+    public string? ExplicitDeclined => Options.ExactOnly || Options.Dt is not null || MethodFromOptions || OverBudget is not { } budget
+        ? null
+        : $"declined: {budget}; the exact path does not step";
+
+    /// <summary>The step-budget problem of <see cref="ExplicitStep"/>, or null within budget.</summary>
+    private string? OverBudget
+    {
+        get
+        {
+            var end = Options.EndTime ?? Times[^1];
+            var steps = Math.Ceiling(end / ExplicitStep);
+            return steps <= Diagnostics.StepLimits.ExplicitStepBudget
+                ? null
+                : $"{ExplicitPropagatorChoice.MethodName(Method)} at dt = {Format.Number(ExplicitStep)} {Loaded.Deck.TimeUnit} needs {Format.Count(steps)} steps to t = {Format.Number(end)} {Loaded.Deck.TimeUnit}, above the budget of {Format.Number(Diagnostics.StepLimits.ExplicitStepBudget)} explicit steps";
         }
     }
 
@@ -124,14 +156,31 @@ public sealed class DeckRun
     /// <summary>The output times: <see cref="RunOptions.Times"/>, else the deck's grid.</summary>
     public double[] Times => _times ??= Options.Times is { } given ? [.. given] : RunSetup.OutputTimes(Loaded.Deck.Run);
 
-    /// <summary>The exact propagator, chosen from <see cref="Balance"/> and <see cref="Initial"/>, reusing <see cref="Spectrum"/>'s decomposition.</summary>
-    public IPropagator ExactPropagator => _exactPropagator ??= ExactPropagatorChoice.Choose(Loaded.Rates, Loaded.Algebra, Balance, Initial, Spectrum);
+    /// <summary>
+    /// The exact propagator: the path of <see cref="RunOptions.ExactPath"/> when given, else chosen
+    /// from <see cref="Balance"/>, <see cref="Initial"/> and the spectrum's resolution over the last
+    /// output time, reusing <see cref="Spectrum"/>'s decomposition.
+    /// </summary>
+    public IPropagator ExactPropagator => _exactPropagator ??= Options.ExactPath is { } path
+        ? ExactPropagatorChoice.Requested(Loaded.Rates, Spectrum, path)
+        : ExactPropagatorChoice.Choose(Loaded.Rates, Loaded.Algebra, Balance, Initial, Spectrum, Times[^1]);
 
     /// <summary>P at <see cref="Times"/> by exact propagation.</summary>
     public Trajectory Exact => _exact ??= Propagate(ExactPropagator, "exact");
 
-    /// <summary>The explicit propagator at <see cref="ExplicitStep"/>; null with <see cref="RunOptions.ExactOnly"/>.</summary>
-    public FixedStepPropagator? ExplicitPropagator => Options.ExactOnly ? null : _explicitPropagator ??= ExplicitPropagatorChoice.Create(Loaded.Rates, Method, ExplicitStep);
+    /// <summary>The explicit propagator at <see cref="ExplicitStep"/>; null with <see cref="RunOptions.ExactOnly"/> or when <see cref="ExplicitDeclined"/>.</summary>
+    public FixedStepPropagator? ExplicitPropagator => Options.ExactOnly || ExplicitDeclined is not null ? null : _explicitPropagator ??= ExplicitPropagatorChoice.Create(Loaded.Rates, Method, ExplicitStep);
+
+    /// <summary>The implicit integrator beside explicit and exact (<see cref="RunOptions.WithImplicit"/>): the exact one when that is already implicit; else null.</summary>
+    public ImplicitSdirkPropagator? ImplicitPropagator => !Options.WithImplicit ? null
+        : _implicitPropagator ??= ExactPropagator as ImplicitSdirkPropagator ?? new ImplicitSdirkPropagator(Loaded.Rates);
+
+    /// <summary>P at <see cref="Times"/> by the implicit integrator; null without <see cref="RunOptions.WithImplicit"/>.</summary>
+    public Trajectory? Implicit => ImplicitPropagator is not { } propagator ? null
+        : _implicit ??= ReferenceEquals(propagator, ExactPropagator) ? Exact : Propagate(propagator, "implicit");
+
+    /// <summary>The largest differences of <see cref="Implicit"/> from <see cref="Exact"/>; null without <see cref="RunOptions.WithImplicit"/>.</summary>
+    public TrajectoryDifference? ImplicitDifference => Implicit is { } implicitResult ? TrajectoryComparison.Compare(Exact, implicitResult) : null;
 
     /// <summary>
     /// P at <see cref="Times"/> by the explicit method; null with <see cref="RunOptions.ExactOnly"/>.

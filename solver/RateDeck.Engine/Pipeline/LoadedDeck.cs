@@ -17,5 +17,13 @@ public sealed record LoadedDeck(Deck Deck, StateSpace States, RateMatrix Rates, 
     /// What the mechanics stage derived from the deck's Lagrangian at the state energies (actions,
     /// periods, weights, turning points), in state order; null when the deck has no Lagrangian.
     /// </summary>
-    public MechanicsResult? Mechanics { get; init; }
+    public MechanicsResult? Mechanics => States.Mechanics;
+
+    /// <summary>
+    /// This deck with <paramref name="overrides"/> applied after the ones it has, validated and
+    /// assembled again without reading any file; see <see cref="Deck.With(IEnumerable{DeckOverride})"/>
+    /// and <see cref="DeckPipeline.Assemble"/> for what is reused.
+    /// </summary>
+    /// <exception cref="DeckException">An override is invalid, or the deck it makes is.</exception>
+    public LoadedDeck With(params IEnumerable<DeckOverride> overrides) => DeckPipeline.Assemble(Deck.With(overrides), Algebra);
 }

@@ -1,4 +1,5 @@
 using RateDeck.Decks;
+using RateDeck.Propagation;
 
 namespace RateDeck.Pipeline;
 
@@ -29,6 +30,12 @@ public sealed record RunOptions
 
     /// <summary>No explicit trajectory: only the exact one (the fitter's trials, <c>run --exact-only</c>).</summary>
     public bool ExactOnly { get; init; }
+
+    /// <summary>An exact path asked for instead of the automatic choice; null: chosen from the spectrum and the horizon.</summary>
+    public ExactPathRequest? ExactPath { get; init; }
+
+    /// <summary>Also integrate with the implicit integrator, beside explicit and exact, and compare it with exact.</summary>
+    public bool WithImplicit { get; init; }
 
     /// <summary>Integrate an explicit step the limits call unsafe anyway (to watch it fail); otherwise asking for it throws <see cref="UnsafeStepException"/>.</summary>
     public bool AllowUnsafeStep { get; init; }

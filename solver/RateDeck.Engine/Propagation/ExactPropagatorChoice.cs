@@ -12,10 +12,29 @@ namespace RateDeck.Propagation;
 /// eigen-decomposition when detailed balance holds for the deck's pi and its rounding is harmless for the start
 /// (see <see cref="SymmetricEigenPropagator.RelativeErrorEstimate"/>), else the general
 /// eigen-decomposition while its eigenvector matrix is well conditioned, else the Pade matrix
-/// exponential.
+/// exponential. Before any of these, the spectrum's resolution decides (docs/stiff-decks.md): when
+/// the spectrum had to be recomputed in double-double (its slow modes were not resolved in
+/// double), the double-double eigen path is taken (<see cref="ExtendedEigenPropagator"/>); when the
+/// double spectrum lost slow modes (more zero eigenvalues than closed classes without loss) that
+/// can move over the run (t_end N eps rho above <see cref="HorizonTolerance"/>, or no t_end given), or
+/// cannot resolve the run's horizon (t_end eps rho above <see cref="HorizonTolerance"/>), the
+/// eigen paths are not trusted and the implicit integrator is taken (<see cref="ImplicitSdirkPropagator"/>).
 /// </summary>
 public static class ExactPropagatorChoice
 {
+    /// <summary>
+    /// A dense eigen path in double serves a run to t_end while t_end eps rho is at most this:
+    /// every eigenvalue carries an absolute error of at least about eps rho (a backward-stable
+    /// solver's, Golub and Van Loan as in <see cref="Spectrum"/>), which shifts exp(lambda t) by
+    /// about t eps rho relative to the total over the run. The sparse contour path forms no
+    /// eigenvalues and is not held to it.
+    /// </summary>
+    public const double HorizonTolerance = 1e-8;
+
+    /// <summary>Largest N the implicit integrator takes (it factors N x N matrices: 2/3 N^3 operations per step size).</summary>
+    public const int ImplicitStateLimit = 2000;
+
+
     /// <summary>
     /// The general eigen path is taken while ||V||_1 ||V^-1||_1 is below this: its rounding is
     /// about the condition times eps, so 1e8 still leaves about 1e-8 of the total population.
@@ -35,8 +54,13 @@ public static class ExactPropagatorChoice
     /// Pass <paramref name="spectrum"/> (the diagnostics' <see cref="Spectrum"/> of the same matrix)
     /// to reuse its decomposition instead of computing a second one: its symmetric decomposition
     /// on the symmetric path, its general one on the general path.
+    /// <para>
+    /// Pass <paramref name="horizon"/> (t_end) to hold the eigen paths to <see cref="HorizonTolerance"/>
+    /// over the run; without it only the spectrum's own resolution is judged.
+    /// </para>
     /// </summary>
-    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, BalanceReport? balance = null, double[]? initial = null, Spectrum? spectrum = null)
+    /// <exception cref="DenseStorageException">No path fits: the spectrum is unresolved and N exceeds <see cref="ImplicitStateLimit"/>.</exception>
+    public static IPropagator Choose(RateMatrix rates, ILinearAlgebra la, BalanceReport? balance = null, double[]? initial = null, Spectrum? spectrum = null, double? horizon = null)
     {
         ArgumentNullException.ThrowIfNull(rates);
         ArgumentNullException.ThrowIfNull(la);
@@ -44,6 +68,12 @@ public static class ExactPropagatorChoice
         if (balance.Origin != rates.Origin)
         {
             throw new ArgumentException("the balance report belongs to another rate matrix", nameof(balance));
+        }
+
+        spectrum ??= Spectrum.Compute(rates, la, balance);
+        if (StiffChoice(rates, spectrum, horizon) is { } stiff)
+        {
+            return stiff;
         }
 
         return balance.SymmetrizesWithDeckEquilibrium
@@ -66,7 +96,7 @@ public static class ExactPropagatorChoice
             if (rates.Count > DenseStorage.StateLimit)
             {
                 throw new DenseStorageException(Format(
-                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {contourEstimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
+                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {Text.Format.Number(contourEstimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
             }
         }
 
@@ -83,7 +113,7 @@ public static class ExactPropagatorChoice
 
         return new PadeExponentialPropagator(rates, la)
         {
-            Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {estimate:G2} of the population (> {SymmetricEigenPropagator.RelativeErrorLimit:G2})"),
+            Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {Text.Format.Number(estimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)})"),
         };
     }
 
@@ -94,15 +124,91 @@ public static class ExactPropagatorChoice
             : new GeneralEigenPropagator(rates, la);
         if (general.EigenvectorCondition < ConditionThreshold)
         {
-            general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {general.EigenvectorCondition:G3} < {ConditionThreshold:G3}");
+            general.Reason = Format($"general eigen-decomposition: {violation}; eigenvector condition estimate {Text.Format.Number(general.EigenvectorCondition)} < {Text.Format.Number(ConditionThreshold)}");
             return general;
         }
 
         return new PadeExponentialPropagator(rates, la)
         {
-            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {general.EigenvectorCondition:G3} >= {ConditionThreshold:G3} (eigenvectors nearly dependent)"),
+            Reason = Format($"Pade matrix exponential: {violation} and eigenvector condition estimate {Text.Format.Number(general.EigenvectorCondition)} >= {Text.Format.Number(ConditionThreshold)} (eigenvectors nearly dependent)"),
         };
     }
 
+    /// <summary>
+    /// The path a user asked for instead of the automatic choice: the implicit integrator (any deck
+    /// with non-negative rates), or the double-double eigen path (a deck completed by detailed
+    /// balance with at most <see cref="Spectrum.ExtendedPrecisionStateLimit"/> states).
+    /// </summary>
+    /// <exception cref="ArgumentException">The deck does not allow the path; the message says why.</exception>
+    public static IPropagator Requested(RateMatrix rates, Spectrum spectrum, ExactPathRequest path)
+    {
+        ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(spectrum);
+        if (path == ExactPathRequest.Implicit)
+        {
+            var implicitPropagator = new ImplicitSdirkPropagator(rates);
+            implicitPropagator.Reason += " (asked for)";
+            return implicitPropagator;
+        }
+
+        if (rates.Origin != BalanceOrigin.CompletedByDetailedBalance || rates.Count > Spectrum.ExtendedPrecisionStateLimit)
+        {
+            throw new ArgumentException(Format($"the double-double eigen path needs a deck completed by detailed balance (one_way or kernel) with at most {Spectrum.ExtendedPrecisionStateLimit} states"), nameof(path));
+        }
+
+        var decomposition = spectrum.Extended ?? ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
+        var zero = Precision.ZeroEigenvalueFactor * rates.Count * 2 * DoubleDouble.Epsilon * spectrum.SpectralRadius;
+        return new ExtendedEigenPropagator(rates, decomposition, zero) { Reason = "symmetric eigen-decomposition in double-double (asked for)" };
+    }
+
+    /// <summary>The propagator for a spectrum that double precision does not resolve (over the horizon), or null when it does.</summary>
+    private static IPropagator? StiffChoice(RateMatrix rates, Spectrum spectrum, double? horizon)
+    {
+        if (spectrum.Extended is { } extended)
+        {
+            return new ExtendedEigenPropagator(rates, extended, spectrum.ZeroTolerance)
+            {
+                Reason = $"symmetric eigen-decomposition in double-double: {spectrum.PathReason}",
+            };
+        }
+
+        string why;
+        // Modes lost below the solver's accuracy N eps rho are treated as null modes: harmless while they cannot move over the run.
+        if (spectrum.LostModes && (horizon is not { } end || end * spectrum.AbsoluteAccuracy > HorizonTolerance))
+        {
+            why = $"the eigen paths are not trusted: {spectrum.Unresolved}";
+        }
+        else if (!rates.IsSparse && horizon is { } t && t * Precision.MachineEpsilon * spectrum.SpectralRadius > HorizonTolerance)
+        {
+            why = Format($"the eigen paths are not trusted to t_end = {t:G6}: their eigenvalues carry absolute errors of eps rho = {Precision.MachineEpsilon * spectrum.SpectralRadius:G3} or more, and t_end eps rho = {t * Precision.MachineEpsilon * spectrum.SpectralRadius:G3} > {HorizonTolerance:G3}");
+        }
+        else
+        {
+            return null;
+        }
+
+        if (rates.Count > ImplicitStateLimit)
+        {
+            throw new DenseStorageException(Format($"no exact path fits: {why}, and the implicit integrator factors N x N matrices, refused above {ImplicitStateLimit} states"));
+        }
+
+        var extendedLimit = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
+            ? Format($"the double-double eigen path serves decks completed by detailed balance up to {Spectrum.ExtendedPrecisionStateLimit} states")
+            : "the double-double eigen path needs a matrix completed by detailed balance";
+        var implicitPropagator = new ImplicitSdirkPropagator(rates);
+        implicitPropagator.Reason = $"{implicitPropagator.Reason}: {why}; {extendedLimit}";
+        return implicitPropagator;
+    }
+
     private static string Format(FormattableString text) => text.ToString(CultureInfo.InvariantCulture);
+}
+
+/// <summary>An exact path asked for by the user instead of the automatic choice.</summary>
+public enum ExactPathRequest
+{
+    /// <summary>The implicit integrator (<see cref="ImplicitSdirkPropagator"/>).</summary>
+    Implicit,
+
+    /// <summary>The double-double eigen path (<see cref="ExtendedEigenPropagator"/>).</summary>
+    Extended,
 }

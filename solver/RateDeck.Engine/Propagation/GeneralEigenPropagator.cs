@@ -54,7 +54,7 @@ public sealed class GeneralEigenPropagator : IPropagator
         _pumping = rates.IsDriven ? Transform(_inverse, rates.Pumping.Select(v => new Complex(v, 0)).ToArray()) : null;
         Reason = string.Create(
             CultureInfo.InvariantCulture,
-            $"general eigen-decomposition of K ({la.Name}); eigenvector condition ||V||_1 ||V^-1||_1 = {EigenvectorCondition:G3}");
+            $"general eigen-decomposition of K ({la.Name}); eigenvector condition ||V||_1 ||V^-1||_1 = {Text.Format.Number(EigenvectorCondition)}");
     }
 
     /// <inheritdoc />

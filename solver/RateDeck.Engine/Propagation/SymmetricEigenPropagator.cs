@@ -86,7 +86,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         ZeroEigenvalueCount = _values.Count(l => l == 0);
         Reason = string.Create(
             CultureInfo.InvariantCulture,
-            $"symmetric eigen-decomposition of D^-1/2 K D^1/2 ({la.Name}); {ZeroEigenvalueCount} zero eigenvalue(s) within {ZeroTolerance:G3}");
+            $"symmetric eigen-decomposition of D^-1/2 K D^1/2 ({la.Name}); {ZeroEigenvalueCount} zero eigenvalue(s) within {Text.Format.Number(ZeroTolerance)}");
     }
 
     /// <inheritdoc />
@@ -136,7 +136,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         {
             throw new InvalidOperationException(string.Create(
                 CultureInfo.InvariantCulture,
-                $"the symmetric eigen path would lose accuracy for this initial state (estimated error {estimate:G2} of the population, pi spans {EquilibriumDecades:F0} decades): use ExactPropagatorChoice.Choose with the initial state, or the Pade exponential"));
+                $"the symmetric eigen path would lose accuracy for this initial state (estimated error {Text.Format.Number(estimate)} of the population, pi spans {EquilibriumDecades:F0} decades): use ExactPropagatorChoice.Choose with the initial state, or the Pade exponential"));
         }
 
         var n = _values.Length;

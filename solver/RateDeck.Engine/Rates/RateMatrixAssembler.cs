@@ -24,8 +24,8 @@ public static class RateMatrixAssembler
 {
     private const double _smallestNormal = 2.2250738585072014e-308;
 
-    /// <summary>The variables of a kernel expression, in evaluation order (kT and the parameters are bound).</summary>
-    private static readonly string[] _kernelVariables = ["x", "y", "i", "j"];
+    /// <summary>The variables of a kernel expression, in evaluation order (kT and the parameters follow them in the scope).</summary>
+    internal static readonly string[] KernelVariables = ["x", "y", "i", "j"];
 
     /// <summary>
     /// Assembles the generator of <paramref name="deck"/> on <paramref name="states"/> (built from
@@ -100,7 +100,7 @@ public static class RateMatrixAssembler
     /// <summary>
     /// W(x -> y) with x, y the source and target coordinates and i, j their ONE-based state
     /// numbers, evaluated once for every pair in the declared direction within the band. kT and
-    /// the deck parameters are bound as constants at compile time.
+    /// the deck parameters are run-time inputs of the once-compiled kernel.
     /// </summary>
     /// <remarks>
     /// The hot loop of a model deck (N^2 pairs for N in the thousands): it reads the coordinates
@@ -114,7 +114,7 @@ public static class RateMatrixAssembler
             throw new DeckException(kernel.Span, $"the band is {kernel.Band}; it must be 1 (nearest neighbours) or more");
         }
 
-        var scope = ExpressionScope.Create(deck, _kernelVariables);
+        var scope = ExpressionScope.Create(deck, KernelVariables);
         var compiled = scope.Compile(kernel.Text, kernel.Span);
         var values = scope.NewValues();
         var n = states.Count;

@@ -35,6 +35,50 @@ public static class SymmetrizedGenerator
     }
 
     /// <summary>
+    /// S in double-double, column-major N x N, for the extended-precision eigen-solver. Kept exactly
+    /// in the form whose eigenvalues the rates determine to high relative accuracy (a weighted graph
+    /// Laplacian with the diagonal scaling of pi): S_jj = -(sum_(i != j) K_ij + loss_j) summed in
+    /// double-double from the stored rates, never the stored K_jj, and S_ij = sqrt(K_ij K_ji), the product exact and the root in double-double, so
+    /// that S_ij^2 = K_ij K_ji for the very rates summed into the diagonals. Then the cancellation
+    /// that fixes a slow mode (a fast rate's diagonal against its two off-diagonals) happens at
+    /// 2^-104 instead of 2^-53. A pair whose completed rate underflowed takes the log-space
+    /// <see cref="Entry"/>.
+    /// </summary>
+    public static LinearAlgebra.DoubleDouble[] BuildExtended(RateMatrix rates)
+    {
+        var n = rates.Count;
+        var k = rates.Generator;
+        var logPi = rates.States.LogEquilibrium;
+        var s = new LinearAlgebra.DoubleDouble[n * n];
+        for (var j = 0; j < n; j++)
+        {
+            var outflow = (LinearAlgebra.DoubleDouble)rates.Loss[j];
+            for (var i = 0; i < n; i++)
+            {
+                if (i == j)
+                {
+                    continue;
+                }
+
+                outflow += k[i, j];
+                if (i > j)
+                {
+                    var (upper, lower) = (k[i, j], k[j, i]);
+                    var value = upper > 0 && lower > 0
+                        ? LinearAlgebra.DoubleDouble.Sqrt(LinearAlgebra.DoubleDouble.Product(upper, lower))
+                        : (LinearAlgebra.DoubleDouble)Entry(upper, lower, logPi[i], logPi[j]);
+                    s[(j * n) + i] = value;
+                    s[(i * n) + j] = value;
+                }
+            }
+
+            s[(j * n) + j] = -outflow;
+        }
+
+        return s;
+    }
+
+    /// <summary>
     /// The lower band of S for a sparse K of bandwidth b, in LAPACK's symmetric band layout
     /// (UPLO = 'L'): S_ij for j &lt;= i &lt;= j + b at [j (b + 1) + (i - j)]. O(N b) memory.
     /// </summary>

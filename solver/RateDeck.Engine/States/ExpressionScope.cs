@@ -5,35 +5,35 @@ namespace RateDeck.States;
 
 /// <summary>
 /// What one kind of deck expression sees: its own variables (x and i for a per-state expression,
-/// say), whose values the caller passes in the order listed, and the fixed names kT and the deck
-/// parameters, bound at compile time. Bound names are folded like literals, so the parts of an
-/// expression that depend only on them are computed once, not once per state or pair; the order
-/// of operations is unchanged, so the values are the same as if they were passed.
+/// say), then kT and the deck parameters as run-time inputs, all read from one values array in
+/// that order. An expression is compiled once per deck file (the compiled form is kept in the
+/// deck's memo and shared by every deck derived from it by overrides); a new kT or parameter
+/// value only changes the array <see cref="NewValues"/> returns.
 /// </summary>
 internal sealed class ExpressionScope
 {
-    /// <summary>The name of the temperature, bound in every scope.</summary>
+    /// <summary>The name of the temperature, an input of every scope.</summary>
     public const string TemperatureName = "kT";
 
-    private readonly Dictionary<string, double> _bound;
+    private readonly Deck _deck;
+    private readonly string[] _names;
+    private readonly int _ownCount;
 
-    private ExpressionScope(string[] variables, Dictionary<string, double> bound)
+    private ExpressionScope(Deck deck, string[] names, int ownCount)
     {
-        Variables = variables;
-        _bound = bound;
+        _deck = deck;
+        _names = names;
+        _ownCount = ownCount;
     }
 
-    /// <summary>The variables in evaluation order (kT and the parameters are not among them).</summary>
-    public IReadOnlyList<string> Variables { get; }
-
     /// <summary>
-    /// The scope of <paramref name="variables"/> with kT and the deck's parameters bound. A
+    /// The scope of <paramref name="variables"/> with kT and the deck's parameters as inputs. A
     /// parameter named like a variable or kT is rejected at the parameter's span: it would be ambiguous.
     /// </summary>
     public static ExpressionScope Create(Deck deck, params string[] variables)
     {
-        var bound = new Dictionary<string, double>(StringComparer.Ordinal) { [TemperatureName] = deck.KT };
-        foreach (var parameter in deck.Parameters.Values.OrderBy(p => p.Name, StringComparer.Ordinal))
+        var parameters = deck.Parameters.Values.OrderBy(p => p.Name, StringComparer.Ordinal).ToArray();
+        foreach (var parameter in parameters)
         {
             if (variables.Contains(parameter.Name, StringComparer.Ordinal) || parameter.Name == TemperatureName)
             {
@@ -41,16 +41,41 @@ internal sealed class ExpressionScope
                     parameter.Span,
                     $"parameter '{parameter.Name}' has the name of a built-in variable ({string.Join(", ", variables.Append(TemperatureName))}); rename the parameter");
             }
-
-            bound.Add(parameter.Name, parameter.Value);
         }
 
-        return new ExpressionScope(variables, bound);
+        string[] names = [.. variables, TemperatureName, .. parameters.Select(p => p.Name)];
+        return new ExpressionScope(deck, names, variables.Length);
     }
 
-    /// <summary>Compiles <paramref name="text"/> in this scope; errors point into the deck from <paramref name="origin"/>.</summary>
-    public CompiledExpression Compile(string text, SourceSpan origin) => ExpressionCompiler.Compile(text, origin, Variables, _bound);
+    /// <summary>
+    /// Compiles <paramref name="text"/> in this scope, or takes the compiled form kept from an
+    /// earlier deck of the same file; errors point into the deck from <paramref name="origin"/>.
+    /// </summary>
+    public CompiledExpression Compile(string text, SourceSpan origin)
+        => _deck.Memo.GetOrAdd(
+            new CompiledKey(text, origin, string.Join(',', _names)),
+            () => ExpressionCompiler.Compile(text, origin, _names));
 
-    /// <summary>A fresh value buffer, one slot per variable.</summary>
-    public double[] NewValues() => new double[Variables.Count];
+    /// <summary>A value buffer: the own variables zero, then kT and the parameters of this deck.</summary>
+    public double[] NewValues()
+    {
+        var values = new double[_names.Length];
+        for (var k = _ownCount; k < values.Length; k++)
+        {
+            values[k] = InputValue(_names[k]);
+        }
+
+        return values;
+    }
+
+    /// <summary>The inputs (kT and parameters) that <paramref name="compiled"/> reads, in scope order.</summary>
+    public IReadOnlyList<string> InputsRead(CompiledExpression compiled)
+        => _names.Skip(_ownCount).Where(compiled.UsedVariables.Contains).ToArray();
+
+    /// <summary>The values of <see cref="InputsRead"/> in this deck, in the same order.</summary>
+    public double[] InputValues(CompiledExpression compiled) => InputsRead(compiled).Select(InputValue).ToArray();
+
+    private double InputValue(string name) => name == TemperatureName ? _deck.KT : _deck.Parameters[name].Value;
+
+    private sealed record CompiledKey(string Text, SourceSpan Origin, string Names);
 }

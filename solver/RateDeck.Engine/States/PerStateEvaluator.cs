@@ -6,12 +6,15 @@ namespace RateDeck.States;
 /// <summary>
 /// Turns a <see cref="PerStateSource"/> into one value per state. An expression sees <c>x</c> (the
 /// state's coordinate), <c>i</c> (the ONE-based state number, as a deck user counts), <c>kT</c>
-/// and the deck parameters; kT and the parameters are bound as constants when it is compiled.
+/// and the deck parameters, run-time inputs of an expression compiled once per deck file.
 /// </summary>
 public static class PerStateEvaluator
 {
     /// <summary>The built-in variables of a per-state expression: x, i and kT.</summary>
     public static IReadOnlyList<string> BuiltInVariables { get; } = ["x", "i", ExpressionScope.TemperatureName];
+
+    /// <summary>The variables of a per-state expression before the inputs kT and the parameters.</summary>
+    internal static readonly string[] StateVariables = ["x", "i"];
 
     /// <summary>
     /// Evaluates <paramref name="source"/> for every state of <paramref name="deck"/>'s grid and
@@ -58,7 +61,7 @@ public static class PerStateEvaluator
 
     private static double[] EvaluateExpression(Deck deck, PerStateExpression expression)
     {
-        var scope = ExpressionScope.Create(deck, "x", "i");
+        var scope = ExpressionScope.Create(deck, StateVariables);
         var compiled = scope.Compile(expression.Text, expression.Span);
         var buffer = scope.NewValues();
         var values = new double[deck.Grid.Count];

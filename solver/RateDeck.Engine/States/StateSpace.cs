@@ -1,3 +1,5 @@
+using RateDeck.Mechanics;
+
 namespace RateDeck.States;
 
 /// <summary>
@@ -39,6 +41,12 @@ public sealed class StateSpace
 
     /// <summary>ln pi_i, normalised so that sum_i pi_i = 1.</summary>
     public double[] LogEquilibrium { get; }
+
+    /// <summary>
+    /// What the mechanics stage derived from the deck's Lagrangian at the state energies (actions,
+    /// periods, weights, turning points), in state order; null when the deck has no Lagrangian.
+    /// </summary>
+    public MechanicsResult? Mechanics { get; init; }
 
     /// <summary>Which of energies and weights the deck gave; pi made only of defaults (all E 0, all g 1) is no claim.</summary>
     public Decks.EquilibriumGiven EquilibriumGiven { get; init; } = Decks.EquilibriumGiven.EnergiesAndWeights;

@@ -13,24 +13,31 @@ namespace RateDeck.States;
 /// </summary>
 public static class StateSpaceBuilder
 {
+    /// <summary>The variables of a Lagrangian before the inputs kT and the parameters.</summary>
+    internal static readonly string[] LagrangianVariables = ["q", "v"];
+
     /// <summary>
     /// Builds the state space of <paramref name="deck"/> with the real mechanics stage
-    /// (<see cref="MechanicsStage"/>), run whenever the deck has a Lagrangian; see
-    /// <see cref="Build(Deck, MechanicsWeightDeriver?)"/>.
+    /// (<see cref="LagrangianMechanics.Derive"/>), run whenever the deck has a Lagrangian; see
+    /// <see cref="Build(Deck, MechanicsDeriver?)"/>. The mechanics result is kept in the deck's memo
+    /// and reused while the Lagrangian, h, the inputs the Lagrangian reads and the energies are
+    /// unchanged: a new kT re-derives nothing for a Lagrangian that does not read kT.
     /// </summary>
-    public static StateSpace Build(Deck deck) => Build(deck, new MechanicsStage().DeriveWeights);
+    public static StateSpace Build(Deck deck) => Build(deck, (lagrangian, energies, planck) => LagrangianMechanics.Derive(lagrangian, energies, planck), memoise: true);
 
     /// <summary>
     /// Builds the state space of <paramref name="deck"/>. When the deck has a Lagrangian and
     /// <paramref name="mechanics"/> is given, the stage is run at the state energies whether or not
     /// the weights come from it: a Lagrangian that gives no closed orbit at a state's energy is a
-    /// mistake in the deck either way. Its weights g(E) = T(E) / h are used when the deck asks for
-    /// weights from mechanics (without a stage that is refused). Throws <see cref="DeckException"/>
-    /// naming the state for a non-finite energy, a weight that is not positive and finite, a kT
-    /// that is not positive and finite, or an energy at which the Lagrangian has no closed orbit
-    /// (at the Lagrangian's span).
+    /// mistake in the deck either way; its result is kept in <see cref="StateSpace.Mechanics"/>.
+    /// Its weights g(E) = T(E) / h are used when the deck asks for weights from mechanics (without
+    /// a stage that is refused). Throws <see cref="DeckException"/> naming the state for a
+    /// non-finite energy, a weight that is not positive and finite, a kT that is not positive and
+    /// finite, or an energy at which the Lagrangian has no closed orbit (at the Lagrangian's span).
     /// </summary>
-    public static StateSpace Build(Deck deck, MechanicsWeightDeriver? mechanics)
+    public static StateSpace Build(Deck deck, MechanicsDeriver? mechanics) => Build(deck, mechanics, memoise: false);
+
+    private static StateSpace Build(Deck deck, MechanicsDeriver? mechanics, bool memoise)
     {
         if (!double.IsFinite(deck.KT) || deck.KT <= 0)
         {
@@ -38,12 +45,12 @@ public static class StateSpaceBuilder
         }
 
         var energies = PerStateEvaluator.Evaluate(deck, deck.Energies, "energy", PerStateRequirement.Finite);
-        var derived = deck.Mechanics is { } spec && mechanics is not null ? DeriveWeights(deck, spec, energies, mechanics) : null;
+        var derived = deck.Mechanics is { } spec && mechanics is not null ? DeriveMechanics(deck, spec, energies, mechanics, memoise) : null;
         var logWeights = deck.Weights switch
         {
             GivenWeights given => PerStateEvaluator.Evaluate(deck, given.Source, "weight", PerStateRequirement.Positive).Select(w => Math.Log(w)).ToArray(),
             IsotropicWeights isotropic => IsotropicLogWeights(deck.Grid, isotropic),
-            MechanicsWeights fromMechanics => MechanicsLogWeights(deck, fromMechanics, derived),
+            MechanicsWeights fromMechanics => MechanicsLogWeights(deck, fromMechanics, derived?.Weights),
             _ => throw new NotSupportedException($"unknown weight specification {deck.Weights.GetType().Name}"),
         };
 
@@ -55,7 +62,10 @@ public static class StateSpaceBuilder
             logWeights,
             deck.KT,
             logEquilibrium)
-        { EquilibriumGiven = deck.EquilibriumGiven };
+        {
+            Mechanics = derived,
+            EquilibriumGiven = deck.EquilibriumGiven,
+        };
     }
 
     /// <summary>
@@ -120,36 +130,45 @@ public static class StateSpaceBuilder
     }
 
     /// <summary>
-    /// Runs the mechanics stage on the deck's Lagrangian, which sees <c>q</c>, <c>v</c>, and kT and
-    /// the parameters bound as constants, and checks every weight. A failure of the stage for one
-    /// state becomes a <see cref="DeckException"/> at the Lagrangian naming that state.
+    /// Runs the mechanics stage on the deck's Lagrangian, which sees <c>q</c>, <c>v</c>, kT and the
+    /// parameters, and checks every weight. A failure of the stage for one state becomes a
+    /// <see cref="DeckException"/> at the Lagrangian naming that state. With
+    /// <paramref name="memoise"/> a result kept for the same inputs is reused.
     /// </summary>
-    private static double[] DeriveWeights(Deck deck, MechanicsSpec spec, double[] energies, MechanicsWeightDeriver mechanics)
+    private static MechanicsResult DeriveMechanics(Deck deck, MechanicsSpec spec, double[] energies, MechanicsDeriver mechanics, bool memoise)
     {
-        var scope = ExpressionScope.Create(deck, "q", "v");
+        var scope = ExpressionScope.Create(deck, LagrangianVariables);
         var compiled = scope.Compile(spec.Lagrangian, spec.Span);
+        var inputs = scope.NewValues();
         double Lagrangian(double q, double v)
         {
             // A fresh buffer per call keeps the delegate safe for a stage that evaluates in parallel.
-            var values = scope.NewValues();
+            var values = (double[])inputs.Clone();
             values[0] = q;
             values[1] = v;
             return compiled.Evaluate(values);
         }
 
-        double[] weights;
-        try
+        MechanicsResult Derive()
         {
-            weights = mechanics(Lagrangian, (double[])energies.Clone(), spec.Planck);
-        }
-        catch (MechanicsException e)
-        {
-            var problem = e.StateIndex is { } k
-                ? $"the Lagrangian fails for state '{deck.Grid.Labels[k]}' (state {k + 1}): {e.Message}"
-                : $"the Lagrangian gives no orbits: {e.Message}";
-            throw new DeckException(spec.Span, problem);
+            try
+            {
+                return mechanics(Lagrangian, (double[])energies.Clone(), spec.Planck);
+            }
+            catch (MechanicsException e)
+            {
+                var problem = e.StateIndex is { } k
+                    ? $"the Lagrangian fails for state '{deck.Grid.Labels[k]}' (state {k + 1}): {e.Message}"
+                    : $"the Lagrangian gives no orbits: {e.Message}";
+                throw new DeckException(spec.Span, problem);
+            }
         }
 
+        var result = memoise
+            ? deck.Memo.GetOrAdd(typeof(MechanicsMemo), () => new MechanicsMemo())
+                .GetOrDerive(new MechanicsKey(spec.Lagrangian, spec.Planck, scope.InputValues(compiled), (double[])energies.Clone()), Derive)
+            : Derive();
+        var weights = result.Weights;
         if (weights.Length != energies.Length)
         {
             throw new InvalidOperationException($"the mechanics stage returned {weights.Length} weights for {energies.Length} states");
@@ -165,7 +184,7 @@ public static class StateSpaceBuilder
             }
         }
 
-        return weights;
+        return result;
     }
 
     private static double[] LogEquilibrium(Deck deck, double[] energies, double[] logWeights)

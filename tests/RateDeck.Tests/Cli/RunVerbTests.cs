@@ -116,4 +116,27 @@ public sealed class RunVerbTests
             Assert.Equal(boltzmann[i] / z, populations[i], 1e-8);
         }
     }
+
+    [Fact]
+    public void Run_WithTFirstRemoved_WritesTheLinearGridTheOverridesAskFor()
+    {
+        using var folder = new TempFolder();
+        var deck = CliRunner.DemoDeck("three-level.toml");
+        var (refused, _, message) = CliRunner.Run("run", deck, "--set", "run.spacing=linear", "--out", folder.File("refused"), "--no-plots");
+        Assert.Equal(ExitCodes.BadInput, refused);
+        Assert.Contains("remove it", message, StringComparison.Ordinal);
+
+        var (code, _, error) = CliRunner.Run(
+            "run", deck, "--set", "run.spacing=linear", "--set", "remove:run.t_first", "--set", "run.outputs=4", "--out", folder.File("out"), "--no-plots");
+
+        Assert.True(code == ExitCodes.Success, error);
+        var lines = File.ReadAllLines(Path.Combine(folder.File("out"), "populations-exact.csv"));
+        Assert.Contains(lines, l => l.StartsWith('#') && l.Contains("remove:run.t_first", StringComparison.Ordinal));
+        var times = lines.Where(l => !l.StartsWith('#')).Skip(1).Select(l => double.Parse(l.Split(',')[0], CultureInfo.InvariantCulture)).ToArray();
+
+        // The deck's t_end = 1e-4 s in four equal steps (to rounding of k t_end / 4).
+        double[] expected = [0.0, 2.5e-5, 5e-5, 7.5e-5, 1e-4];
+        Assert.Equal(expected.Length, times.Length);
+        Assert.All(expected.Zip(times), pair => Assert.Equal(pair.First, pair.Second, 1e-19));
+    }
 }

@@ -77,12 +77,14 @@ public sealed class DeckOverrideTests : IDisposable
         Assert.Equal("--set alpah=1: " + error.Problem, error.Message);
     }
 
-    [Fact]
-    public void UnknownDeckKeyOverride_FailsWithAHint()
+    [Theory]
+    [InlineData("run.tend=5", "t_end")]
+    [InlineData("remove:run.t_frist", "t_first")]
+    public void UnknownDeckKeyOverrideOrRemoval_FailsWithAHint(string text, string meant)
     {
-        var error = Assert.Throws<DeckException>(() => _scratch.Parse(DeckScratch.Valid(), "run.tend=5"));
-        Assert.Equal(SourceSpan.None("--set run.tend=5"), error.Span);
-        Assert.Contains("Did you mean `t_end`?", error.Problem);
+        var error = Assert.Throws<DeckException>(() => _scratch.Parse(DeckScratch.Valid(), text));
+        Assert.Equal(SourceSpan.None("--set " + text), error.Span);
+        Assert.Contains($"Did you mean `{meant}`?", error.Problem);
     }
 
     [Fact]
@@ -121,5 +123,34 @@ public sealed class DeckOverrideTests : IDisposable
         var error = Assert.Throws<DeckException>(() => _scratch.Parse(DeckScratch.Valid(), "run.t_end=-1"));
         Assert.Equal(SourceSpan.None("--set run.t_end=-1"), error.Span);
         Assert.Contains("must be > 0", error.Problem);
+    }
+
+    [Fact]
+    public void RemoveOverride_LetsALinearGridReplaceALogarithmicOne()
+    {
+        var logGrid = DeckScratch.Valid(run: "t_end = 1.0\nspacing = \"log\"\nt_first = 0.001");
+        var refused = Assert.Throws<DeckException>(() => _scratch.Parse(logGrid, "run.spacing=linear"));
+        Assert.Contains("`t_first` starts a logarithmic output grid", refused.Problem);
+
+        var deck = _scratch.Parse(logGrid, "run.spacing=linear", "remove:run.t_first");
+        Assert.Equal(OutputSpacing.Linear, deck.Run.Spacing);
+        Assert.Null(deck.Run.FirstTime);
+        Assert.Equal(["run.spacing=linear", "remove:run.t_first"], deck.Overrides);
+    }
+
+    [Fact]
+    public void RemoveOverride_OfATable_DropsIt_AndOfAnAbsentKey_ChangesNothing()
+    {
+        var pumped = DeckScratch.Valid(extra: "[pumping]\nby_state = { a = 1.0 }");
+        Assert.NotNull(_scratch.Parse(pumped).Pumping);
+        Assert.Null(_scratch.Parse(pumped, "remove:pumping").Pumping);
+        Assert.Equal(0.5, _scratch.Parse(DeckScratch.Valid(), "remove:run.dt", "remove:losses.by_state.b").KT);
+    }
+
+    [Fact]
+    public void EmptyValue_IsAnErrorNotARemoval()
+    {
+        var error = Assert.Throws<DeckException>(() => _scratch.Parse(DeckScratch.Valid(), "run.t_end="));
+        Assert.Contains("remove:key", error.Problem);
     }
 }

@@ -1,4 +1,3 @@
-using System.Collections.Frozen;
 using RateDeck.Decks;
 using RateDeck.Expressions;
 using Xunit;
@@ -31,50 +30,29 @@ public class ExpressionCompilerTests
     public void ConstantSubtrees_AreFolded_WithoutReorderingOperations()
     {
         var source = new ExpressionSource("sqrt(4)*x + 2^10", _origin);
-        var (tree, _) = Parser.Parse(source, ["x"], FrozenDictionary<string, double>.Empty);
+        var (tree, _) = Parser.Parse(source, ["x"]);
         var sum = Assert.IsType<BinaryNode>(tree);
         var product = Assert.IsType<BinaryNode>(sum.Left);
         Assert.Equal(2.0, Assert.IsType<NumberNode>(product.Left).Value);
         Assert.Equal(1024.0, Assert.IsType<NumberNode>(sum.Right).Value);
 
         // (x*2)*3 is not rewritten to x*6: reassociation can change the rounded result.
-        var (chain, _) = Parser.Parse(new ExpressionSource("x*2*3", _origin), ["x"], FrozenDictionary<string, double>.Empty);
+        var (chain, _) = Parser.Parse(new ExpressionSource("x*2*3", _origin), ["x"]);
         var outer = Assert.IsType<BinaryNode>(chain);
         Assert.IsType<BinaryNode>(outer.Left);
         Assert.Equal(3.0, Assert.IsType<NumberNode>(outer.Right).Value);
     }
 
     [Fact]
-    public void Parameters_AreFoldedLikeLiterals_AndGiveTheSameBitsAsVariables()
+    public void ParametersAreVariables_ListedAndSuggestedInErrors()
     {
-        var parameters = new Dictionary<string, double> { ["a"] = 2.5, ["s"] = 0.3 };
-        var (tree, used) = Parser.Parse(new ExpressionSource("gamma(1+s)*x", _origin), ["x"], parameters);
-        Assert.Equal(SpecialMath.Gamma(1.3), Assert.IsType<NumberNode>(Assert.IsType<BinaryNode>(tree).Left).Value);
-        Assert.Equal(["x"], used);
-
-        const string kernel = "a*exp(-(x-y)^2/(2*s^2))*gamma(1+s)";
-        var bound = ExpressionCompiler.Compile(kernel, _origin, ["x", "y"], parameters);
-        var free = ExpressionCompiler.Compile(kernel, _origin, ["x", "y", "a", "s"]);
-        Assert.Equal(free.Evaluate([1.2, 0.7, 2.5, 0.3]), bound.Evaluate([1.2, 0.7]));
-        Assert.Equal(new HashSet<string> { "x", "y" }, bound.UsedVariables.ToHashSet());
-        Assert.True(ExpressionCompiler.Compile("a/s", _origin, ["x"], parameters).IsConstant);
-    }
-
-    [Fact]
-    public void Parameters_AreListedAndSuggestedInErrors()
-    {
-        var parameters = new Dictionary<string, double> { ["width"] = 1.0 };
-        var unknown = Assert.Throws<DeckException>(() => ExpressionCompiler.Compile("x/k", _origin, ["x"], parameters));
+        string[] names = ["x", "width"];
+        var unknown = Assert.Throws<DeckException>(() => ExpressionCompiler.Compile("x/k", _origin, names));
         Assert.Equal("unknown name 'k': not a variable here (x, width), a constant (pi, e) or a function", unknown.Problem);
-        var typo = Assert.Throws<DeckException>(() => ExpressionCompiler.Compile("x/widht", _origin, ["x"], parameters));
+        var typo = Assert.Throws<DeckException>(() => ExpressionCompiler.Compile("x/widht", _origin, names));
         Assert.Equal("unknown name 'widht': did you mean 'width'?", typo.Problem);
         Assert.Equal(new SourceSpan("model.toml", 5, 13), typo.Span);
     }
-
-    [Fact]
-    public void AParameterNamedLikeAVariable_IsRejected()
-        => Assert.Throws<ArgumentException>(
-            () => ExpressionCompiler.Compile("x", _origin, ["x"], new Dictionary<string, double> { ["x"] = 1.0 }));
 
     [Fact]
     public void FoldedAndCompiledEvaluation_GiveTheSameBits()

@@ -13,12 +13,12 @@ public sealed class CsvOutputTests
     private static readonly OutputHeader _header = new("1.2.3+abc", "decks/cascade.toml", new string('a', 64), ["kT=2.5", "run.dt=0.001"]);
 
     // Doubles whose text form is easy to get wrong: non-terminating binary fractions, the extremes,
-    // subnormals and negative zero. Exact round trip of "R" formatting is the documented .NET
+    // subnormals and zero. Exact round trip of "R" formatting is the documented .NET
     // (Core 3.0 and later) behaviour for double.ToString("R") and double.Parse.
     private static readonly double[] _awkward =
     [
         0.1, 1.0 / 3.0, 0.1 + 0.2, Math.PI * 1e100, -Math.E * 1e-100, double.MaxValue, double.MinValue,
-        double.Epsilon, 2.2250738585072014e-308, 2.2250738585072009e-308, -0.0, 0.0, 1e23, 9007199254740993.0,
+        double.Epsilon, 2.2250738585072014e-308, 2.2250738585072009e-308, 0.0, 1e23, 9007199254740993.0,
     ];
 
     [Fact]
@@ -59,13 +59,13 @@ public sealed class CsvOutputTests
     }
 
     [Fact]
-    public void Trajectory_RoundTripsEveryDoubleBitForBit()
+    public void Trajectory_RoundTripsEveryNonZeroDoubleBitForBit()
     {
         var random = new Random(20240611);
         var randomBits = Enumerable.Range(0, 400).Select(_ => RandomFiniteDouble(random)).ToArray();
         var values = _awkward.Concat(randomBits).ToArray();
         var times = values.Select((_, k) => k * 0.1).ToArray();
-        var populations = values.Select(v => new[] { v, -v, v / 7.0 }).ToArray();
+        var populations = values.Select(v => new[] { v, v == 0 ? 0.0 : -v, v / 7.0 }).ToArray();
         using var folder = new TempFolder();
         var path = folder.File("trajectory.csv");
 
@@ -132,13 +132,29 @@ public sealed class CsvOutputTests
         ResultCsv.WriteSpectrum(path, _header, [-4.0, -1e-18, 0.0, -0.5], "ns", zeroTolerance: 1e-15);
         var table = ReadTable(path);
 
-        Assert.Equal(["index", "eigenvalue", "relaxation_time"], table.Header);
-        Assert.Equal(["0", "1", "2", "3"], table.Column("index"));
+        Assert.Equal(["mode", "eigenvalue", "relaxation_time"], table.Header);
         Assert.Equal(0.25, table.Number(0, "relaxation_time"));
         Assert.Equal("inf", table.Rows[1][2]);
         Assert.Equal("inf", table.Rows[2][2]);
         Assert.Equal(2.0, table.Number(3, "relaxation_time"));
         Assert.Contains("# eigenvalue_unit: 1/ns", File.ReadAllLines(path));
+    }
+
+    [Fact]
+    public void Spectrum_NumbersModesFromOneAndNeverWritesNegativeZero()
+    {
+        using var folder = new TempFolder();
+        var path = folder.File("spectrum.csv");
+
+        // A zero eigenvalue often comes out of an eigen-solver as -0 (IEEE 754 signed zero), and a
+        // real mode's imaginary part as -0 too; a reader counts modes from 1 (common practice).
+        ResultCsv.WriteSpectrum(path, _header, [new Complex(-2.0, -0.0), new Complex(-0.0, 0.0), new Complex(-1.0, 0.5)], "s");
+        var table = ReadTable(path);
+
+        Assert.Equal(["1", "2", "3"], table.Column("mode"));
+        Assert.DoesNotContain(table.Rows, row => row.Contains("-0"));
+        Assert.Equal("0", table.Rows[1][1]);
+        Assert.Equal("0", table.Rows[0][2]);
     }
 
     [Fact]
@@ -150,7 +166,7 @@ public sealed class CsvOutputTests
         ResultCsv.WriteSpectrum(path, _header, [new Complex(-2.0, 3.0), new Complex(0.0, 0.0)], "s");
         var table = ReadTable(path);
 
-        Assert.Equal(["index", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], table.Header);
+        Assert.Equal(["mode", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], table.Header);
         Assert.Equal(3.0, table.Number(0, "eigenvalue_im"));
         Assert.Equal(0.5, table.Number(0, "relaxation_time"));
         Assert.Equal("inf", table.Rows[1][3]);

@@ -1,4 +1,5 @@
 using RateDeck.Decks;
+using RateDeck.Mechanics;
 using RateDeck.States;
 using RateDeck.Tests.Support;
 using Xunit;
@@ -158,7 +159,7 @@ public class StateSpaceBuilderTests
     public void MechanicsWeights_WithoutALagrangian_AreRefusedAtTheirSpan()
     {
         var deck = TestDecks.Create(Coordinates(2), [1, 2], new MechanicsWeights(TestDecks.At(4)), TestDecks.NoCoupling);
-        var error = Assert.Throws<DeckException>(() => StateSpaceBuilder.Build(deck, (_, e, _) => e));
+        var error = Assert.Throws<DeckException>(() => StateSpaceBuilder.Build(deck, (_, e, _) => new MechanicsResult(e, e, e, e, e, e)));
         Assert.Contains("Lagrangian", error.Problem, StringComparison.Ordinal);
     }
 

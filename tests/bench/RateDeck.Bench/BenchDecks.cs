@@ -98,6 +98,64 @@ public static class BenchDecks
         return Path.Combine(folder, "ladder.toml");
     }
 
+    /// <summary>
+    /// A dense energy-grain deck of <paramref name="n"/> grains (model units, kT = 1): grain energies
+    /// 0.1 .. 50 kT, density of states x^3 (four oscillators), exponential-down collisions
+    /// W(x -> y) = 1e9 exp(-(x - y) / 1.5) for every lower grain (10^9 down to about 10^-6 per
+    /// time unit: the rates span 10^15), and a dissociation loss 1e6 ((x - 30) / x)^3 above 30 kT.
+    /// All population starts in the lowest grain; 50 logarithmic outputs from 1e-12 to 1e4. The
+    /// slowest mode (thermal dissociation) is far below eps rho, so the symmetric path in double
+    /// cannot resolve it. Every number is invented for the benchmark.
+    /// </summary>
+    public static string WriteGrain(string folder, int n)
+    {
+        Directory.CreateDirectory(folder);
+        var path = Path.Combine(folder, "grain.toml");
+        File.WriteAllText(path, $$"""
+            format = 1
+            title = "bench: {{n}} energy grains, exponential-down collisions, dissociation above 30 kT"
+
+            [units]
+            energy = "none"
+            time = "s"
+
+            [temperature]
+            kT = 1.0
+
+            [states]
+            spacing = "linear"
+            count = {{n}}
+            from = 0.1
+            to = 50.0
+            label_prefix = "g"
+
+            [energies]
+            expression = "x"
+
+            [weights]
+            expression = "x^3"
+
+            [transfer]
+            kind = "kernel"
+            direction = "toward_smaller"
+            kernel = "1e9 * exp(-(x - y) / 1.5)"
+
+            [losses]
+            expression = "1e6 * max(0, (x - 30) / x)^3"
+
+            [initial]
+            state = "g1"
+
+            [run]
+            t_end = 1.0e4
+            spacing = "log"
+            t_first = 1.0e-12
+            outputs = 50
+
+            """);
+        return path;
+    }
+
     /// <summary>The tables both bench decks share: model units, kT = 1, n linear states 1..n, E = slope x.</summary>
     private static string LinearGrid(int n, string slope) => $"""
         [units]

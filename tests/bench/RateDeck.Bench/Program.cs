@@ -14,6 +14,8 @@ var suites = new Dictionary<string, Action<BenchOptions>>
     ["memory"] = options => RunBench.Run(options.Sizes, options.Runs, withReference: false, Console.Out),
     ["ladder"] = options => LadderBench.Run(options.Sizes, options.Runs, Console.Out),
     ["kernel-assembly"] = options => KernelAssemblyBenchmark.Run(options.Sizes.Max()),
+    ["trial"] = options => TrialBench.Run(options.Runs, Console.Out),
+    ["stiff"] = options => StiffBench.Run(options.Sizes, options.Runs, Console.Out),
 };
 
 if (args.Length == 0 || !suites.TryGetValue(args[0], out var suite))

@@ -1,0 +1,139 @@
+using System.Numerics;
+using System.Runtime.InteropServices;
+
+namespace RateDeck.LinearAlgebra;
+
+/// <summary>
+/// LU factors of a column diagonally dominant M-matrix A, given not by its entries but by the
+/// magnitudes of its off-diagonal entries, m_ij = -A_ij &gt;= 0, and its column excesses
+/// e_j = A_jj - sum_(i != j) m_ij &gt;= 0 (for I - a K: e_j = 1 + a loss_j; for -K on a leaking
+/// block: the loss plus the outflow leaving the block). Gaussian elimination then never subtracts:
+/// the multipliers m_ik / d_k and the Schur complement's off-diagonals m_ij + l_ik m_kj are sums
+/// of non-negative numbers, each pivot is recomputed as d_k = e_k + sum_(i &gt; k) m_ik from the
+/// current off-diagonals, and the excesses update as e_j + m_kj e_k / d_k. This is the idea of
+/// Grassmann, Taksar and Heyman (Oper. Res. 33 (1985) 1107) carried to a non-singular M-matrix,
+/// the triplet representation of Alfa, Xue and Ye (Math. Comp. 71 (2002) 217, from memory): every
+/// factor is accurate to a few units of roundoff relative to itself, however far the rates spread,
+/// and a solve with a non-negative right-hand side is subtraction-free too, so each component of
+/// the solution is relatively accurate. No pivoting is needed: column dominance is inherited by
+/// every Schur complement, and the multipliers are at most 1.
+/// </summary>
+public sealed class MMatrixFactorization
+{
+    private readonly int _n;
+    private readonly double[] _factors;
+    private readonly double[] _pivots;
+
+    private MMatrixFactorization(int n, double[] factors, double[] pivots)
+    {
+        _n = n;
+        _factors = factors;
+        _pivots = pivots;
+    }
+
+    /// <summary>The order N.</summary>
+    public int Count => _n;
+
+    /// <summary>
+    /// Factors A from <paramref name="offDiagonal"/> (column-major N x N, m_ij at [j N + i]; the
+    /// diagonal slots are ignored; consumed: it receives the factors) and <paramref name="excess"/>
+    /// (length N; consumed).
+    /// </summary>
+    /// <exception cref="SingularMatrixException">A pivot is zero: a set of states has no way out and no excess.</exception>
+    public static MMatrixFactorization Factor(int n, double[] offDiagonal, double[] excess)
+    {
+        ArgumentNullException.ThrowIfNull(offDiagonal);
+        ArgumentNullException.ThrowIfNull(excess);
+        if (offDiagonal.Length != n * n || excess.Length != n)
+        {
+            throw new ArgumentException($"expected {n} x {n} off-diagonal magnitudes and {n} excesses", nameof(offDiagonal));
+        }
+
+        var m = offDiagonal;
+        var pivots = new double[n];
+        for (var k = 0; k < n; k++)
+        {
+            var column = m.AsSpan(k * n, n);
+            var pivot = excess[k];
+            for (var i = k + 1; i < n; i++)
+            {
+                pivot += column[i];
+            }
+
+            if (!(pivot > 0))
+            {
+                throw new SingularMatrixException($"pivot {k + 1} of {n} is {pivot}: the states left at that point have no way out");
+            }
+
+            pivots[k] = pivot;
+            for (var i = k + 1; i < n; i++)
+            {
+                column[i] /= pivot;
+            }
+
+            var multipliers = column[(k + 1)..];
+            var share = excess[k] / pivot;
+            for (var j = k + 1; j < n; j++)
+            {
+                var mkj = m[(j * n) + k];
+                if (mkj != 0)
+                {
+                    excess[j] += mkj * share;
+                    AddScaled(m.AsSpan((j * n) + k + 1, n - k - 1), multipliers, mkj);
+                }
+            }
+        }
+
+        return new MMatrixFactorization(n, m, pivots);
+    }
+
+    /// <summary>Overwrites <paramref name="b"/> with A^-1 b.</summary>
+    public void Solve(Span<double> b)
+    {
+        if (b.Length != _n)
+        {
+            throw new ArgumentException($"the right-hand side has {b.Length} entries, not {_n}", nameof(b));
+        }
+
+        var n = _n;
+        for (var k = 0; k < n - 1; k++)
+        {
+            if (b[k] != 0)
+            {
+                AddScaled(b[(k + 1)..], _factors.AsSpan((k * n) + k + 1, n - k - 1), b[k]);
+            }
+        }
+
+        for (var k = n - 1; k >= 0; k--)
+        {
+            b[k] /= _pivots[k];
+            if (b[k] != 0 && k > 0)
+            {
+                AddScaled(b[..k], _factors.AsSpan(k * n, k), b[k]);
+            }
+        }
+    }
+
+    /// <summary>y += a x, in SIMD lanes where the hardware has them.</summary>
+    private static void AddScaled(Span<double> y, ReadOnlySpan<double> x, double a)
+    {
+        var i = 0;
+        if (Vector.IsHardwareAccelerated && y.Length >= Vector<double>.Count)
+        {
+            var yv = MemoryMarshal.Cast<double, Vector<double>>(y);
+            var xv = MemoryMarshal.Cast<double, Vector<double>>(x);
+            var av = new Vector<double>(a);
+            for (var v = 0; v < yv.Length; v++)
+            {
+                yv[v] += xv[v] * av;
+            }
+
+            i = yv.Length * Vector<double>.Count;
+        }
+
+        for (; i < y.Length; i++)
+        {
+            y[i] += x[i] * a;
+        }
+    }
+}
