@@ -46,7 +46,7 @@ public sealed class RunVerb : IVerb
         if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
         {
             context.Error.WriteLine($"ratedeck run: {run.StepVerdict.Problem}; "
-                + "choose a smaller --dt (or --dt auto), use --exact-only, or pass --allow-unstable to watch it diverge");
+                + "use --exact-only, choose another --dt (or --dt auto), or pass --allow-unstable to watch an unstable step diverge");
             return ExitCodes.UnsafeTimeStep;
         }
 
