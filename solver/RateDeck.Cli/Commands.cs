@@ -42,6 +42,11 @@ public static class Commands
             stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
             return ExitCodes.BadInput;
         }
+        catch (Pipeline.UnsafeStepException e)
+        {
+            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
+            return ExitCodes.UnsafeTimeStep;
+        }
         catch (DeckException e)
         {
             stderr.WriteLine(e.Message);

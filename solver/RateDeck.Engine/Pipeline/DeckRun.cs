@@ -72,10 +72,13 @@ public sealed class DeckRun
     /// <summary>True when the step is automatic: no <see cref="RunOptions.Dt"/>, and <see cref="RunOptions.AutomaticDt"/> or no run.dt in the deck.</summary>
     public bool StepIsAutomatic => Options.Dt is null && (Options.AutomaticDt || Loaded.Deck.Run.Dt is null);
 
-    /// <summary>The hard cap of an automatic step: run.safety times the stability limit, and for Euler also the positivity limit.</summary>
-    public double StepCap => Method == ExplicitMethod.Euler
+    /// <summary>
+    /// The hard cap of an automatic step: run.safety times the stability limit, and for Euler also
+    /// the positivity limit. Without any rate there is no limit, and the cap is the whole run.
+    /// </summary>
+    public double StepCap => FiniteOrEnd(Method == ExplicitMethod.Euler
         ? Math.Min(Loaded.Deck.Run.SafetyFactor * StepLimits.EulerStable.MaxStep, StepLimits.Positivity.MaxStep)
-        : Loaded.Deck.Run.SafetyFactor * StepLimits.Rk4Stable.MaxStep;
+        : Loaded.Deck.Run.SafetyFactor * StepLimits.Rk4Stable.MaxStep);
 
     /// <summary>
     /// The automatic step chosen by step doubling for the deck's run.accuracy, at most
@@ -87,7 +90,8 @@ public sealed class DeckRun
         {
             if (!_accurateChosen)
             {
-                _accurate = StepIsAutomatic && !Options.ExactOnly
+                // An exact trajectory that overflows is refused (see Exact) before a step is sought to follow it.
+                _accurate = StepIsAutomatic && !Options.ExactOnly && Exact is not null
                     ? AccurateStepChoice.Choose(Loaded.Rates, Method, Initial, Times, StepCap, Loaded.Deck.Run.Accuracy)
                     : null;
                 _accurateChosen = true;
@@ -98,7 +102,19 @@ public sealed class DeckRun
     }
 
     /// <summary>The explicit step: <see cref="RunOptions.Dt"/>, else the deck's run.dt (unless <see cref="RunOptions.AutomaticDt"/>), else the step chosen for accuracy (<see cref="AccurateStep"/>), else <see cref="StepCap"/>.</summary>
-    public double ExplicitStep => Options.Dt ?? (Options.AutomaticDt ? null : Loaded.Deck.Run.Dt) ?? AccurateStep?.Dt ?? StepCap;
+    public double ExplicitStep => FiniteOrEnd(Options.Dt ?? (Options.AutomaticDt ? null : Loaded.Deck.Run.Dt) ?? AccurateStep?.Dt ?? StepCap);
+
+    /// <summary>Why <see cref="ExplicitStep"/> needs more steps between two outputs than can be run, or null.</summary>
+    private string? StepCountProblem()
+    {
+        var dt = ExplicitStep;
+        var widest = Times.Select((t, k) => k == 0 ? t : t - Times[k - 1]).Max();
+        return widest / dt <= FixedStepPropagator.MaxStepsPerOutput
+            ? null
+            : $"dt = {Format.Number(dt)} {Loaded.Deck.TimeUnit} needs more than {Format.Number(FixedStepPropagator.MaxStepsPerOutput)} explicit steps to cross an output interval of {Format.Number(widest)} {Loaded.Deck.TimeUnit}";
+    }
+
+    private double FiniteOrEnd(double step) => double.IsFinite(step) ? step : Times[^1];
 
     /// <summary>Whether explicit and exact agree within the deck's run.accuracy (of the total); null with <see cref="RunOptions.ExactOnly"/>.</summary>
     public bool? AccuracyMet => Difference is { } difference ? difference.MaxRelativeToTotal <= Loaded.Deck.Run.Accuracy : null;
@@ -113,6 +129,11 @@ public sealed class DeckRun
     {
         get
         {
+            if (StepCountProblem() is { } tooMany)
+            {
+                return new StepVerdict(false, tooMany);
+            }
+
             var dt = ExplicitStep;
             var limit = StabilityLimit;
             var unit = Loaded.Deck.TimeUnit;
@@ -166,7 +187,8 @@ public sealed class DeckRun
         : ExactPropagatorChoice.Choose(Loaded.Rates, Loaded.Algebra, Balance, Initial, Spectrum, Times[^1]);
 
     /// <summary>P at <see cref="Times"/> by exact propagation.</summary>
-    public Trajectory Exact => _exact ??= Propagate(ExactPropagator, "exact");
+    /// <exception cref="DeckException">A population overflows the largest double (pumping near 1e308, say): no number of it could be trusted.</exception>
+    public Trajectory Exact => _exact ??= Finite(Propagate(ExactPropagator, "exact"));
 
     /// <summary>The explicit propagator at <see cref="ExplicitStep"/>; null with <see cref="RunOptions.ExactOnly"/> or when <see cref="ExplicitDeclined"/>.</summary>
     public FixedStepPropagator? ExplicitPropagator => Options.ExactOnly || ExplicitDeclined is not null ? null : _explicitPropagator ??= ExplicitPropagatorChoice.Create(Loaded.Rates, Method, ExplicitStep);
@@ -202,7 +224,19 @@ public sealed class DeckRun
                 throw new UnsafeStepException(problem!);
             }
 
-            return _explicit ??= Propagate(propagator, ExplicitPropagatorChoice.MethodName(Method));
+            // Too many steps cannot be run even to watch them fail.
+            if (StepCountProblem() is { } tooMany)
+            {
+                throw new UnsafeStepException(tooMany);
+            }
+
+            _explicit ??= Propagate(propagator, ExplicitPropagatorChoice.MethodName(Method));
+            if (!Options.AllowUnsafeStep && !_explicit.Populations.All(p => p.All(double.IsFinite)))
+            {
+                throw new UnsafeStepException($"the {ExplicitPropagatorChoice.MethodName(Method)} trajectory overflows the largest double (about 1.8e308) inside its steps although the exact one does not: the pumping or the rates are too large for explicit steps; rescale the units");
+            }
+
+            return _explicit;
         }
     }
 
@@ -226,6 +260,22 @@ public sealed class DeckRun
             var scale = Math.Max(steady.Sum(Math.Abs), double.Epsilon);
             return last.Zip(steady, (a, b) => Math.Abs(a - b)).Max() / scale;
         }
+    }
+
+    private Trajectory Finite(Trajectory exact)
+    {
+        for (var k = 0; k < exact.Times.Length; k++)
+        {
+            if (!exact.Populations[k].All(double.IsFinite))
+            {
+                var deck = Loaded.Deck;
+                var source = deck.Pumping is null ? "the rates are" : "the pumping is";
+                throw new DeckException(deck.Pumping?.Span ?? deck.Run.Span,
+                    $"the populations overflow the largest number a double holds (about 1.8e308) by t = {Format.Number(exact.Times[k])} {deck.TimeUnit}: {source} too large for these times; rescale the units or shorten t_end");
+            }
+        }
+
+        return exact;
     }
 
     private Trajectory Propagate(IPropagator propagator, string label)

@@ -58,7 +58,9 @@ public static class RunSetup
         {
             for (var k = 1; k < count; k++)
             {
-                times[k] = RoundGridTime(end * k / count);
+                // end * k overflows for an end time near the largest double; end / count * k does
+                // not, and is kept for that case only so that ordinary grids keep their values.
+                times[k] = RoundGridTime(double.IsFinite(end * k) ? end * k / count : end / count * k);
             }
         }
 

@@ -63,6 +63,12 @@ public static class AccurateStepChoice
             var coarse = ExplicitPropagatorChoice.Create(rates, method, h).Propagate(initial, times);
             var fine = HalfSteps(ExplicitPropagatorChoice.Create(rates, method, h / 2), initial, times);
             error = TrajectoryComparison.Compare(fine, coarse).MaxRelativeToTotal / (1 - Math.Pow(2, -order));
+            if (double.IsNaN(error))
+            {
+                // The trial overflowed (numbers near the largest double): no step size can be estimated.
+                return new AccurateStep(tried, cap, error, false, $"the explicit trial at dt = {Format.Number(h)} overflows, so no error estimate is possible; rely on the exact result");
+            }
+
             if (error <= target)
             {
                 var how = round == 1 ? "the cap already meets it" : $"found in {round} rounds";

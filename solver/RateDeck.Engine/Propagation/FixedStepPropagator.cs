@@ -14,7 +14,8 @@ namespace RateDeck.Propagation;
 public abstract class FixedStepPropagator : IPropagator
 {
     private const double _stepCountSlack = 1e-9;
-    private const double _maxStepsPerOutput = 1e15;
+    /// <summary>Most steps between two outputs: beyond this the run would take years, and the step count no longer fits the loop.</summary>
+    public const double MaxStepsPerOutput = 1e15;
     private readonly RateMatrix _rates;
     private readonly double[] _pumping;
 
@@ -76,7 +77,7 @@ public abstract class FixedStepPropagator : IPropagator
             if (span > 0)
             {
                 var stepCount = Math.Ceiling(span / TimeStep - _stepCountSlack);
-                if (stepCount > _maxStepsPerOutput)
+                if (stepCount > MaxStepsPerOutput)
                 {
                     throw new ArgumentException("the time step is too small for the output times (more than 1e15 steps)", nameof(times));
                 }
