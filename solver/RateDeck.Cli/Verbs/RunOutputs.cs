@@ -17,6 +17,9 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
     private readonly OutputHeader _header = OutputHeader.For(loaded.Deck);
     private readonly List<string> _written = [];
 
+    /// <summary>Why the plots asked for were not drawn (no font), or null.</summary>
+    public string? PlotsRefused { get; private set; }
+
     /// <summary>Writes every output and returns the file names, in the order written.</summary>
     public IReadOnlyList<string> Write(Trajectory exact, Trajectory? explicitResult, Spectrum spectrum, StiffnessReport limits,
         SteadyStateResult steady, double dt, ExplicitMethod method, bool plots, bool writeRates = false)
@@ -47,7 +50,8 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
             WriteFile("rate-matrix.csv", path => ResultCsv.WriteRateMatrix(path, _header, loaded.Rates, deck.TimeUnit));
         }
 
-        if (plots)
+        PlotsRefused = plots ? Plots.Unavailable : null;
+        if (plots && PlotsRefused is null)
         {
             WritePlots(exact, explicitResult, spectrum, limits, steady, dt, method);
         }

@@ -77,7 +77,13 @@ public sealed class RunVerb : IVerb
         var stabilityLimit = run.StabilityLimit;
 
         var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
-        var written = new RunOutputs(loaded, outputFolder).Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"), args.Has("--write-rates"));
+        var outputs = new RunOutputs(loaded, outputFolder);
+        var written = outputs.Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"), args.Has("--write-rates"));
+        if (outputs.PlotsRefused is { } refused)
+        {
+            context.Error.WriteLine($"ratedeck run: {refused}");
+        }
+
 
         var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
         if (args.Has("--json"))

@@ -166,6 +166,11 @@ internal static class PlotCanvas
 
     public static void Save(Plot plot, string path, PlotOptions options)
     {
+        if (Plots.FontProblem(FontFamily) is { } problem)
+        {
+            throw new InvalidOperationException(problem);
+        }
+
         var png = plot.GetImageBytes(options.Width, options.Height, ImageFormat.Png);
         AtomicFile.WriteBytes(path, stream => stream.Write(png));
     }

@@ -18,7 +18,8 @@ namespace RateDeck.Outputs;
 /// </para>
 /// <para>
 /// Text needs a font: the plots use <see cref="FontFamily"/>. On a Debian machine without fonts,
-/// install <c>fonts-dejavu-core</c>; otherwise the images are drawn without any text.
+/// install <c>fonts-dejavu-core</c>; without a font no plot is drawn (<see cref="Unavailable"/> says why),
+/// never a plot without text.
 /// </para>
 /// </summary>
 public static class Plots
@@ -33,6 +34,17 @@ public static class Plots
     /// system offers; null when no font is installed at all (the images then carry no text).
     /// </summary>
     public static string? FontFamily => PlotCanvas.FontFamily;
+
+    /// <summary>Why plots cannot be drawn on this machine (one line naming the package to install); null when a font exists.</summary>
+    public static string? Unavailable => FontProblem(FontFamily);
+
+    /// <summary>
+    /// The refusal for the font family found (null: none): a plot without a font would carry no
+    /// title, axis label, tick or legend, so it is not drawn at all.
+    /// </summary>
+    public static string? FontProblem(string? family) => family is null
+        ? "plots not drawn: no font is installed to put text on them; install one (Debian: apt-get install fonts-dejavu-core) or pass --no-plots"
+        : null;
 
     /// <summary>
     /// Populations against time for chosen states: the exact result as a line, the explicit one as
