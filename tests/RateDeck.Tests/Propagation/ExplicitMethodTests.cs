@@ -106,7 +106,7 @@ public class ExplicitMethodTests
         var rk4 = ExplicitPropagatorChoice.Create(rates, ExplicitMethod.RungeKutta4, 0.01);
         Assert.Equal("rk4", rk4.Name);
         Assert.Equal(0.01, rk4.TimeStep);
-        Assert.Contains("dt = 0.01", rk4.Reason, StringComparison.Ordinal);
+        Assert.Contains("dt = 1e-2", rk4.Reason, StringComparison.Ordinal);
         Assert.Throws<ArgumentOutOfRangeException>(() => ExplicitPropagatorChoice.Create(rates, ExplicitMethod.Euler, 0.0));
     }
 }
