@@ -180,7 +180,7 @@ public static class ExactPropagatorChoice
         }
         else if (!rates.IsSparse && horizon is { } t && t * Precision.MachineEpsilon * spectrum.SpectralRadius > HorizonTolerance)
         {
-            why = Format($"the eigen paths are not trusted to t_end = {t:G6}: their eigenvalues carry absolute errors of eps rho = {Precision.MachineEpsilon * spectrum.SpectralRadius:G3} or more, and t_end eps rho = {t * Precision.MachineEpsilon * spectrum.SpectralRadius:G3} > {HorizonTolerance:G3}");
+            why = $"the eigen paths are not trusted to t_end = {Text.Format.Number(t)}: their eigenvalues carry absolute errors of eps rho = {Text.Format.Number(Precision.MachineEpsilon * spectrum.SpectralRadius)} or more, and t_end eps rho = {Text.Format.Number(t * Precision.MachineEpsilon * spectrum.SpectralRadius)} > {Text.Format.Number(HorizonTolerance)}";
         }
         else
         {

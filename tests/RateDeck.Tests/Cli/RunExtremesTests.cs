@@ -61,13 +61,18 @@ public sealed class RunExtremesTests : IDisposable
     }
 
     [Fact]
-    public void RateNear1e308_WithAutomaticStep_IsRefusedWithExitThree()
+    public void RateNear1e308_WithAutomaticStep_DeclinesExplicitAndReachesTheBoltzmannEquilibrium()
     {
         var deck = WriteDeck("[0.0, 0.1]", "[0.0, 0.1]", "kind = \"kernel\"\ndirection = \"toward_smaller\"\nkernel = \"1e308\"");
-        var (code, _, error) = CliRunner.Run("run", deck, "--out", _folder.File("out"));
+        var output = _folder.File("out");
+        var (code, printed, error) = CliRunner.Run("run", deck, "--no-plots", "--out", output);
 
-        Assert.Equal(ExitCodes.UnsafeTimeStep, code);
-        Assert.DoesNotContain("internal error", error, StringComparison.Ordinal);
+        Assert.True(code == ExitCodes.Success, error);
+        Assert.Contains("explicit     declined", printed, StringComparison.Ordinal);
+        var last = File.ReadLines(Path.Combine(output, "populations-exact.csv")).Last().Split(',');
+        // Relaxed at once: P2/P1 = exp(-(0.1 - 0) / 0.05) = exp(-2) with equal weights (common practice).
+        var ratio = double.Parse(last[2], System.Globalization.CultureInfo.InvariantCulture) / double.Parse(last[1], System.Globalization.CultureInfo.InvariantCulture);
+        Assert.Equal(Math.Exp(-2), ratio, 1e-12);
     }
 
     [Fact]

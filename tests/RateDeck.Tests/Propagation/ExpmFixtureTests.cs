@@ -86,7 +86,7 @@ public class ExpmFixtureTests
         var fixture = Cases().Single(c => c.Name == "nearly_defective3");
         var rates = TestRates.FromRows(fixture.Generator, fixture.Pumping);
         var general = new GeneralEigenPropagator(rates, new ManagedLinearAlgebra());
-        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra());
+        var chosen = ExactPropagatorChoice.Choose(rates, new ManagedLinearAlgebra(), horizon: fixture.Times.Max());
 
         // Three eigenvalues within 2e-7: the eigenvector matrix is about 1 / (1e-7)^2 from singular
         // (NumPy gives 2e14 for the same matrix).
