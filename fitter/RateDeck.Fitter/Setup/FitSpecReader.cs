@@ -52,6 +52,11 @@ public static class FitSpecReader
         }
 
         var seed = fit.Integer("seed") ?? 1;
+        if (fit.Bool("profile") == true)
+        {
+            throw new DeckException(fit.Entry("profile")!.Value.Span, "profile-likelihood intervals are not available yet; remove `profile = true` (the report gives the linearised standard errors)");
+        }
+
         var triangle = fit.Bool("triangle") ?? false;
         var free = ReadFree(Table(fit, "free"), deckSpan);
         if (free.Count == 0 && !triangle)

@@ -21,7 +21,6 @@ public sealed class FitVerb : IVerb
         new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
         new("--starts", "N", "number of starting points: the deck's values, then seeded random ones (default: fit.starts or 1)"),
         new("--seed", "N", "seed of the random starting points (default: fit.seed or 1)"),
-        new("--profile", null, "add profile-likelihood intervals beside the standard errors"),
         new("--no-plots", null, "write no PNG plot"),
     ]);
 
@@ -38,7 +37,7 @@ public sealed class FitVerb : IVerb
             throw new UsageException(e.Message);
         }
 
-        var options = new FitOptions(Whole(args, "--starts"), Whole(args, "--seed"), args.Has("--profile") ? true : null);
+        var options = new FitOptions(Whole(args, "--starts"), Whole(args, "--seed"));
         var outcome = Fitter.Fit(args.DeckPath, args.Overrides, algebra, options);
         var folder = args.Value("--out") ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(args.DeckPath));
         Directory.CreateDirectory(folder);
