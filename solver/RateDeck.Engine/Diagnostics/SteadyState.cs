@@ -76,6 +76,9 @@ public static class SteadyState
 
         var classes = TransitionGraph.Classify(rates);
         var approach = spectrum.SlowestRate is { } slowest ? 1 / slowest : double.PositiveInfinity;
+        var approachText = spectrum.SlowestRate is not null ? Format.Number(approach)
+            : spectrum.IsResolved ? "none (no mode decays)"
+            : "unknown (the slowest rate is not resolved; see the spectrum line)";
         SteadyStateResult Fail(string message, IReadOnlyList<ClassMass> masses, double[][] absorption) =>
             new(SteadyStateKind.None, null, null, approach, masses, classes.TransientLabels, absorption, null, message);
 
@@ -131,12 +134,12 @@ public static class SteadyState
         {
             var conserved = lossFree.Count == 0 ? "" : $", plus the mass of P(0) kept by {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss";
             return new SteadyStateResult(SteadyStateKind.Driven, populations, residual, approach, masses, classes.TransientLabels, absorption, null,
-                $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Number(residual)}; approach time {Format.Number(approach)}");
+                $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Number(residual)}; approach time {approachText}");
         }
 
         var lost = initial.Sum() - keptMass;
         return new SteadyStateResult(SteadyStateKind.Undriven, populations, residual, approach, masses, classes.TransientLabels, absorption, lost,
-            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Number(residual)}; approach time {Format.Number(approach)}");
+            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Number(residual)}; approach time {approachText}");
     }
 
     /// <summary>B[t][c] from K_TT^T B = -R.</summary>
