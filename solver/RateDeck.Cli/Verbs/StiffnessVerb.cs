@@ -1,5 +1,4 @@
 using RateDeck.Cli.CommandLine;
-using RateDeck.Decks;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
 using RateDeck.Pipeline;
@@ -69,13 +68,13 @@ public sealed class StiffnessVerb : IVerb
         }
         else
         {
-            WriteSummary(context.Out, loaded, spectrum, report, chosen);
+            WriteSummary(context.Out, loaded, spectrum, report, run);
         }
 
         return safe ? ExitCodes.Success : ExitCodes.UnsafeTimeStep;
     }
 
-    private static void WriteSummary(TextWriter output, LoadedDeck loaded, Spectrum spectrum, StiffnessReport report, ExplicitMethod chosen)
+    private static void WriteSummary(TextWriter output, LoadedDeck loaded, Spectrum spectrum, StiffnessReport report, DeckRun run)
     {
         VerbSupport.WriteDeckLine(output, loaded);
         output.WriteLine($"spectrum     {spectrum.PathReason}");
@@ -100,8 +99,9 @@ public sealed class StiffnessVerb : IVerb
         {
             output.WriteLine();
             output.WriteLine($"  dt = {Format.Number(dt)}: euler {Verdict(report.EulerSafe)}, rk4 {Verdict(report.Rk4Safe)}, positivity {(report.PositivityPreserving == true ? "kept" : "NOT kept")} (forward Euler)");
-            var verdict = (chosen == ExplicitMethod.Euler ? report.EulerSafe : report.Rk4Safe) == true ? "safe" : "UNSAFE";
-            output.WriteLine($"  for the deck's method ({VerbSupport.MethodName(chosen)}) the step is {verdict}");
+            var verdict = run.StepVerdict.Safe ? "safe" : $"UNSAFE: {run.StepVerdict.Problem}";
+            var whose = run.MethodFromOptions ? "for the method asked for" : "for the deck's method";
+            output.WriteLine($"  {whose} ({VerbSupport.MethodName(run.Method)}) the step is {verdict}");
             if (report.StepsAtDt is { } steps)
             {
                 var within = report.WithinBudget == true

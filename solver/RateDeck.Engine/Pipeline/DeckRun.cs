@@ -121,7 +121,7 @@ public sealed class DeckRun
 
     /// <summary>
     /// Whether <see cref="ExplicitStep"/> can be trusted with <see cref="Method"/>: within the
-    /// stability limit, and, when the caller chose the method or the step, within
+    /// stability limit, for forward Euler within the positivity limit, and, when the caller chose the method or the step, within
     /// <see cref="Diagnostics.StepLimits.ExplicitStepBudget"/> steps to <see cref="RunOptions.EndTime"/> (else the last output time)
     /// (a step the deck chose is declined instead, <see cref="ExplicitDeclined"/>).
     /// </summary>
@@ -140,6 +140,12 @@ public sealed class DeckRun
             if (dt > limit)
             {
                 return new StepVerdict(false, $"dt = {Format.Number(dt)} {unit} is above the {ExplicitPropagatorChoice.MethodName(Method)} stability limit {Format.Number(limit)} {unit} for this deck");
+            }
+
+            // A probability must stay non-negative: forward Euler past 1/max|K_ii| has a negative entry in I + dt K.
+            if (Method == ExplicitMethod.Euler && dt > StepLimits.Positivity.MaxStep)
+            {
+                return new StepVerdict(false, $"dt = {Format.Number(dt)} {unit} is above the forward-Euler positivity limit {Format.Number(StepLimits.Positivity.MaxStep)} {unit} for this deck (populations can go negative)");
             }
 
             return OverBudget is { } budget && (Options.Dt is not null || MethodFromOptions)
