@@ -27,19 +27,10 @@ public sealed class FitVerb : IVerb
     /// <inheritdoc />
     public int Execute(ParsedArguments args, VerbContext context)
     {
-        ILinearAlgebra algebra;
-        try
-        {
-            algebra = LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
-        }
-        catch (LinearAlgebraChoiceException e)
-        {
-            throw new UsageException(e.Message);
-        }
-
+        var algebra = VerbSupport.Algebra(args);
         var options = new FitOptions(Whole(args, "--starts"), Whole(args, "--seed"));
         var outcome = Fitter.Fit(args.DeckPath, args.Overrides, algebra, options);
-        var folder = args.Value("--out") ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(args.DeckPath));
+        var folder = VerbSupport.OutputFolder(args, outcome.Deck);
         Directory.CreateDirectory(folder);
         var files = new List<string> { "residuals.csv", "correlation.csv" };
         FitFiles.WriteResiduals(Path.Combine(folder, files[0]), outcome);

@@ -11,19 +11,19 @@ namespace RateDeck.Cli.Verbs;
 internal static class VerbSupport
 {
     /// <summary>Loads the deck named on the command line through the pipeline with the provider asked for.</summary>
-    public static LoadedDeck Load(ParsedArguments args)
+    public static LoadedDeck Load(ParsedArguments args) => DeckPipeline.Load(args.DeckPath, args.Overrides, Algebra(args));
+
+    /// <summary>The linear-algebra provider asked for with <c>--linalg</c> (automatic when absent); a bad choice is a usage error.</summary>
+    public static ILinearAlgebra Algebra(ParsedArguments args)
     {
-        ILinearAlgebra algebra;
         try
         {
-            algebra = LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
+            return LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
         }
         catch (LinearAlgebraChoiceException e)
         {
             throw new UsageException(e.Message);
         }
-
-        return DeckPipeline.Load(args.DeckPath, args.Overrides, algebra);
     }
 
     /// <summary>The output folder: <c>--out</c>, else <c>ratedeck-out/&lt;deck file name without extension&gt;</c>.</summary>
