@@ -78,7 +78,7 @@ public sealed class RunVerb : IVerb
 
         var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
         var outputs = new RunOutputs(loaded, outputFolder);
-        var written = outputs.Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"), args.Has("--write-rates"));
+        var written = outputs.Write(exact, explicitResult, run.Spectrum, steady, dt, run.Method, !args.Has("--no-plots"), args.Has("--write-rates"));
         if (outputs.PlotsRefused is { } refused)
         {
             context.Error.WriteLine($"ratedeck run: {refused}");
