@@ -26,7 +26,7 @@ internal static class DeckSchema
         ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "times", "plot_states"],
         ["mechanics"] = ["lagrangian", "planck"],
         ["plot"] = ["time_axis", "state_axis"],
-        ["fit"] = ["starts", "seed", "max_iterations", "profile", "triangle", "free", "observables", "data"],
+        ["fit"] = ["starts", "seed", "max_iterations", "profile", "profile_level", "derivatives", "triangle", "free", "observables", "data"],
     };
 
     /// <summary>Tables whose keys are names the deck chooses (parameter names, state labels).</summary>
