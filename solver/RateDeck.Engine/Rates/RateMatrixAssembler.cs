@@ -58,7 +58,7 @@ public static class RateMatrixAssembler
             : PerStateEvaluator.Evaluate(deck, deck.Pumping, "pumping rate", PerStateRequirement.NonNegative);
 
         FillDiagonal(generator, loss, states, deck.Coupling.Span);
-        return generator.Build(states, loss, pumping, origin, storage);
+        return generator.Build(states, loss, pumping, origin, storage, deck.TimeUnit);
     }
 
     private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, GeneratorBuilder generator)
