@@ -32,8 +32,8 @@ internal static class VerbSupport
 
     /// <summary>
     /// The provenance every JSON summary starts with (tool version, deck, hash, overrides, provider,
-    /// state count, kT and its units, the unit of every time and rate that follows); a verb adds
-    /// its own snake_case keys in order.
+    /// state count, kT and its units, the unit of every time and rate that follows and the unit the
+    /// deck's own numbers are in); a verb adds its own snake_case keys in order.
     /// </summary>
     public static Dictionary<string, object?> JsonFields(LoadedDeck loaded) => JsonFields(loaded.Deck, loaded.Algebra);
 
@@ -51,6 +51,7 @@ internal static class VerbSupport
         ["temperature_kelvin"] = EnergyUnits.KelvinFromKT(deck.KT, deck.EnergyUnit),
         ["time_unit"] = deck.TimeUnit,
         ["rate_unit"] = Format.RateUnit(deck.TimeUnit),
+        ["deck_time_unit"] = deck.GivenTimeUnit ?? deck.TimeUnit,
     };
 
     /// <summary>The first lines of every summary: which deck, how many states, which provider.</summary>
@@ -65,6 +66,10 @@ internal static class VerbSupport
 
         output.WriteLine($"states       {loaded.States.Count} ({StateRange(loaded.States.Labels)})   linear algebra: {loaded.Algebra.Name}");
         output.WriteLine($"temperature  {Temperature(deck)}");
+        if (deck.GivenTimeUnit is { } given)
+        {
+            output.WriteLine($"time unit    {deck.TimeUnit} in every result; the deck's rates are per {given} and its times in {given}, converted");
+        }
     }
 
     /// <summary>"kT = 0.05 eV (T = 580 K)"; a deck in model units has no kelvin and says so.</summary>
