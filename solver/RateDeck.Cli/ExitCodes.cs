@@ -25,4 +25,10 @@ public static class ExitCodes
 
     /// <summary><c>ratedeck fit</c> stopped without converging (iteration limit, or no step reduces the RSS); the report is still printed.</summary>
     public const int NotConverged = 6;
+
+    /// <summary>Stopped by SIGINT (Ctrl-C): 128 + 2, as shells report it. Temporary files were removed; the output folder holds the earlier run's files or all of this run's, never a mix.</summary>
+    public const int Interrupted = 130;
+
+    /// <summary>Stopped by SIGTERM: 128 + 15, as shells report it. Temporary files were removed; the output folder holds the earlier run's files or all of this run's, never a mix.</summary>
+    public const int Terminated = 143;
 }

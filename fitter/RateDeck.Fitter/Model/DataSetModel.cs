@@ -1,4 +1,3 @@
-using System.Text.RegularExpressions;
 using RateDeck.Decks;
 using RateDeck.Fitting.Data;
 using RateDeck.Fitting.Setup;
@@ -6,19 +5,21 @@ using RateDeck.LinearAlgebra;
 using RateDeck.Mechanics;
 using RateDeck.Pipeline;
 using RateDeck.Propagation;
-using RateDeck.Rates;
 using RateDeck.States;
 
 namespace RateDeck.Fitting.Model;
 
 /// <summary>
 /// One data set with its deck (the deck plus the data set's overrides) and the model that predicts
-/// its columns from the free parameters: apply the values to the deck in memory, assemble the
-/// states and the rate matrix, propagate exactly to the data times and evaluate each column.
-/// The exact propagator's path is chosen once, at the start values, and kept for every trial.
-/// When the Lagrangian reads no free parameter the mechanics stage runs once, not per trial.
+/// its columns from the free parameters, on the engine's pipeline: the free values become typed
+/// overrides of the deck (<see cref="TrialDeck"/>, <see cref="Deck.With(IEnumerable{DeckOverride})"/>),
+/// <see cref="DeckPipeline.Assemble"/> builds the states and the rate matrix (compiled expressions,
+/// rate files and the mechanics reused from the deck's memo), and <see cref="DeckRun.Exact"/>
+/// propagates to the data times on the path chosen once, at the start values, and kept for every
+/// trial (<see cref="RunOptions.ExactPath"/>). The mechanics of a Lagrangian is derived again only
+/// when a value it reads changes.
 /// </summary>
-public sealed partial class DataSetModel
+public sealed class DataSetModel
 {
     /// <summary>Up to this many states a banded deck is fitted on the dense symmetric eigen path instead of the contour path.</summary>
     public const int DenseEigenLimit = 1000;
@@ -26,9 +27,9 @@ public sealed partial class DataSetModel
     private readonly ILinearAlgebra _algebra;
     private readonly Observable[] _observables;
     private readonly int[][] _timeIndex;
-    private readonly MechanicsDeriver _mechanics;
+    private RunOptions _options = new() { ExactOnly = true };
 
-    private DataSetModel(DataSetSpec spec, Deck deck, DataTable data, Observable[] observables, double[] times, int[][] timeIndex, bool mechanicsPerTrial, ILinearAlgebra algebra)
+    private DataSetModel(DataSetSpec spec, Deck deck, DataTable data, Observable[] observables, double[] times, int[][] timeIndex, ILinearAlgebra algebra)
     {
         Spec = spec;
         Deck = deck;
@@ -36,7 +37,6 @@ public sealed partial class DataSetModel
         _observables = observables;
         Times = times;
         _timeIndex = timeIndex;
-        _mechanics = mechanicsPerTrial ? DeriveEveryTime() : DeriveOnce();
         _algebra = algebra;
         PropagatorPath = "";
         PropagatorReason = "";
@@ -60,8 +60,11 @@ public sealed partial class DataSetModel
     /// <summary>Why that propagator was chosen.</summary>
     public string PropagatorReason { get; private set; }
 
-    /// <summary>How many times the mechanics stage derived the weights (1 when cached).</summary>
-    public int MechanicsDerivations { get; private set; }
+    /// <summary>How many exact trajectories this data set's model has computed (trials, differences and curves).</summary>
+    public int TrajectoryEvaluations { get; private set; }
+
+    /// <summary>How many times the mechanics stage derived the weights for this data set's deck (1 when kept for every trial).</summary>
+    public int MechanicsDerivations => Deck.Memo.GetOrAdd(typeof(MechanicsMemo), () => new MechanicsMemo()).Derivations;
 
     /// <summary>
     /// Reads the data set's deck and data and fixes the propagator path at the start values
@@ -83,21 +86,23 @@ public sealed partial class DataSetModel
         var observables = data.Series.Select(s => compiled[s.Name]()).ToArray();
         var times = data.Series.SelectMany(s => s.Times).Distinct().Order().ToArray();
         var timeIndex = data.Series.Select(s => s.Times.Select(t => Array.BinarySearch(times, t)).ToArray()).ToArray();
-        var model = new DataSetModel(spec, deck, data, observables, times, timeIndex, LagrangianReadsFreeValues(deck, targets), algebra);
-        model.ChoosePath(model.Apply(targets, start));
+        var model = new DataSetModel(spec, deck, data, observables, times, timeIndex, algebra);
+        model.ChoosePath(Build(deck, targets, start));
         return model;
     }
 
     /// <summary>The deck with the free values applied.</summary>
+    /// <exception cref="InfeasibleTrialException">The values make the deck invalid.</exception>
     public Deck Apply(IReadOnlyList<ParameterTarget> targets, IReadOnlyList<double> values)
     {
-        var deck = Deck;
-        for (var k = 0; k < targets.Count; k++)
+        try
         {
-            deck = targets[k].Apply(deck, values[k]);
+            return Build(Deck, targets, values);
         }
-
-        return deck;
+        catch (DeckException e)
+        {
+            throw new InfeasibleTrialException(e.Problem, e);
+        }
     }
 
     /// <summary>
@@ -128,14 +133,14 @@ public sealed partial class DataSetModel
         return [.. _observables.Select(o => trajectory.Populations.Select(p => o.Evaluate(p, deck)).ToArray())];
     }
 
-    /// <summary>The populations at <paramref name="times"/> on the fixed path.</summary>
+    /// <summary>The populations at <paramref name="times"/> on the kept path.</summary>
     /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
     public Trajectory Propagate(Deck deck, double[] times)
     {
+        TrajectoryEvaluations++;
         try
         {
-            var (rates, initial) = Assemble(deck);
-            return CreatePropagator(rates).Propagate(initial, times);
+            return new DeckRun(DeckPipeline.Assemble(deck, _algebra), _options with { Times = times }).Exact;
         }
         catch (Exception e) when (e is DeckException or ArgumentException or InvalidOperationException or MechanicsException or ArithmeticException)
         {
@@ -143,79 +148,42 @@ public sealed partial class DataSetModel
         }
     }
 
-    /// <summary>The rate matrix and P(0) of <paramref name="deck"/> (mechanics from the cache when it applies).</summary>
-    public (RateMatrix Rates, double[] Initial) Assemble(Deck deck)
+    private static Deck Build(Deck deck, IReadOnlyList<ParameterTarget> targets, IReadOnlyList<double> values)
     {
-        var states = StateSpaceBuilder.Build(deck, _mechanics);
-        var rates = RateMatrixAssembler.Assemble(deck, states);
-        return (rates, RunSetup.InitialPopulations(deck, states));
+        var trial = new TrialDeck(deck);
+        for (var k = 0; k < targets.Count; k++)
+        {
+            targets[k].Apply(trial, values[k]);
+        }
+
+        return trial.Build();
     }
 
+    /// <summary>
+    /// Chooses the exact path as <c>ratedeck run</c> would for this deck, P(0) and the last data
+    /// time, and keeps it (<see cref="ExactPropagatorChoice.RequestOf"/>) for every trial.
+    /// </summary>
     private void ChoosePath(Deck deck)
     {
-        var (rates, initial) = Assemble(deck);
-        var chosen = ExactPropagatorChoice.Choose(rates, _algebra, initial: initial);
+        var run = new DeckRun(DeckPipeline.Assemble(deck, _algebra), _options with { Times = Times });
+        var chosen = run.ExactPropagator;
         PropagatorPath = chosen.Name;
         PropagatorReason = chosen.Reason;
+        var request = ExactPropagatorChoice.RequestOf(chosen);
+        var rates = run.Loaded.Rates;
         if (chosen is ContourExponentialPropagator && rates.Count <= DenseEigenLimit)
         {
             // The contour path saves memory on large banded decks; below this size one dense
             // decomposition per trial is faster and as accurate when its rounding estimate allows.
             var symmetric = new SymmetricEigenPropagator(rates, _algebra);
-            if (symmetric.RelativeErrorEstimate(initial) <= SymmetricEigenPropagator.RelativeErrorLimit)
+            if (symmetric.RelativeErrorEstimate(run.Initial) <= SymmetricEigenPropagator.RelativeErrorLimit)
             {
                 PropagatorPath = symmetric.Name;
                 PropagatorReason = $"symmetric eigen-decomposition: {rates.Count} states are few enough for a dense decomposition per trial ({chosen.Reason[..chosen.Reason.IndexOf(';', StringComparison.Ordinal)]} otherwise)";
+                request = ExactPathRequest.SymmetricEigen;
             }
         }
+
+        _options = _options with { ExactPath = request };
     }
-
-    private IPropagator CreatePropagator(RateMatrix rates) => PropagatorPath switch
-    {
-        "symmetric-eigen" => new SymmetricEigenPropagator(rates, _algebra),
-        "contour-exponential" => new ContourExponentialPropagator(rates),
-        "general-eigen" => new GeneralEigenPropagator(rates, _algebra),
-        _ => new PadeExponentialPropagator(rates, _algebra),
-    };
-
-    /// <summary>True when the deck's Lagrangian names kT or a free [parameters] entry, so that each trial must derive the weights again.</summary>
-    private static bool LagrangianReadsFreeValues(Deck deck, IReadOnlyList<ParameterTarget> targets)
-    {
-        if (deck.Mechanics is not { } mechanics)
-        {
-            return false;
-        }
-
-        var names = Identifier().Matches(mechanics.Lagrangian).Select(m => m.Value).ToHashSet(StringComparer.Ordinal);
-        return targets.Any(t => t is TemperatureTarget ? names.Contains("kT") : t is DeckParameterTarget && names.Contains(t.Key));
-    }
-
-    private MechanicsDeriver DeriveEveryTime() => (lagrangian, energies, planck) =>
-    {
-        MechanicsDerivations++;
-        return LagrangianMechanics.Derive(lagrangian, energies, planck);
-    };
-
-    /// <summary>Derives once and reuses the weights while the energies and h are the same (they are when no free value reaches them).</summary>
-    private MechanicsDeriver DeriveOnce()
-    {
-        double[]? energiesSeen = null;
-        var planckSeen = double.NaN;
-        MechanicsResult? result = null;
-        return (lagrangian, energies, planck) =>
-        {
-            if (result is null || planck != planckSeen || !energies.SequenceEqual(energiesSeen!))
-            {
-                MechanicsDerivations++;
-                result = LagrangianMechanics.Derive(lagrangian, energies, planck);
-                energiesSeen = (double[])energies.Clone();
-                planckSeen = planck;
-            }
-
-            return result;
-        };
-    }
-
-    [GeneratedRegex("[A-Za-z_][A-Za-z0-9_]*")]
-    private static partial Regex Identifier();
 }

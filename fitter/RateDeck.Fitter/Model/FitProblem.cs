@@ -47,6 +47,9 @@ public sealed class FitProblem : ILeastSquaresProblem
     /// <summary>The data sets.</summary>
     public IReadOnlyList<DataSetModel> DataSets { get; }
 
+    /// <summary>Exact trajectories computed so far over every data set (each trial, each difference, each curve).</summary>
+    public int TrajectoryEvaluations => DataSets.Sum(d => d.TrajectoryEvaluations);
+
     /// <summary>True when the data give standard deviations (the residuals are weighted).</summary>
     public bool HasStandardDeviations { get; }
 

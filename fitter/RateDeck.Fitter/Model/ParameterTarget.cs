@@ -3,17 +3,18 @@ using RateDeck.Decks;
 namespace RateDeck.Fitting.Model;
 
 /// <summary>
-/// What a free parameter sets in a validated deck, in memory (the deck text is not parsed again
-/// per trial): kT, a [parameters] entry, a state's loss or pumping rate, a state's initial
-/// population, or one measured rate of a one-way table.
+/// What a free parameter sets in a deck, through the engine's typed overrides collected by
+/// <see cref="TrialDeck"/> (the deck text is not parsed again per trial): kT, a [parameters]
+/// entry, a state's loss or pumping rate, a state's initial population, or one measured rate of a
+/// one-way table.
 /// </summary>
 public abstract record ParameterTarget(string Key)
 {
     /// <summary>The deck's value (the default start).</summary>
     public abstract double Read(Deck deck);
 
-    /// <summary>The deck with this value set.</summary>
-    public abstract Deck Apply(Deck deck, double value);
+    /// <summary>Sets this value in the trial.</summary>
+    public abstract void Apply(TrialDeck trial, double value);
 
     /// <summary>
     /// Resolves a [fit.free] key against <paramref name="deck"/>: <c>kT</c>, a parameter name,
@@ -60,7 +61,7 @@ public sealed record TemperatureTarget(string Key) : ParameterTarget(Key)
     public override double Read(Deck deck) => deck.KT;
 
     /// <inheritdoc />
-    public override Deck Apply(Deck deck, double value) => deck with { KT = value };
+    public override void Apply(TrialDeck trial, double value) => trial.Add(DeckOverride.KT(value));
 }
 
 /// <summary>A [parameters] entry.</summary>
@@ -70,12 +71,7 @@ public sealed record DeckParameterTarget(string Key) : ParameterTarget(Key)
     public override double Read(Deck deck) => deck.Parameters[Key].Value;
 
     /// <inheritdoc />
-    public override Deck Apply(Deck deck, double value)
-    {
-        var parameters = new Dictionary<string, DeckParameter>(deck.Parameters, StringComparer.Ordinal);
-        parameters[Key] = parameters[Key] with { Value = value };
-        return deck with { Parameters = parameters };
-    }
+    public override void Apply(TrialDeck trial, double value) => trial.Add(DeckOverride.Parameter(Key, value));
 }
 
 /// <summary>One state's loss or pumping rate, where the deck gives them per state (values or by_state).</summary>
@@ -85,13 +81,7 @@ public sealed record StateRateTarget(string Key, int State, bool IsLoss) : Param
     public override double Read(Deck deck) => Values(deck)[State];
 
     /// <inheritdoc />
-    public override Deck Apply(Deck deck, double value)
-    {
-        var values = (double[])Values(deck).Clone();
-        values[State] = value;
-        var span = (IsLoss ? deck.Losses : deck.Pumping)?.Span ?? deck.Grid.Span;
-        return IsLoss ? deck with { Losses = new PerStateValues(values, span) } : deck with { Pumping = new PerStateValues(values, span) };
-    }
+    public override void Apply(TrialDeck trial, double value) => trial.PerState(IsLoss ? "losses" : "pumping", Values)[State] = value;
 
     private double[] Values(Deck deck) => (IsLoss ? deck.Losses : deck.Pumping) switch
     {
@@ -108,12 +98,7 @@ public sealed record InitialTarget(string Key, int State) : ParameterTarget(Key)
     public override double Read(Deck deck) => Values(deck)[State];
 
     /// <inheritdoc />
-    public override Deck Apply(Deck deck, double value)
-    {
-        var values = (double[])Values(deck).Clone();
-        values[State] = value;
-        return deck with { Initial = new InitialGiven(new PerStateValues(values, deck.Initial.Span)) };
-    }
+    public override void Apply(TrialDeck trial, double value) => trial.PerState("initial", Values)[State] = value;
 
     private double[] Values(Deck deck) => deck.Initial switch
     {
@@ -152,11 +137,9 @@ public sealed record TriangleTarget(string Key, int Entry) : ParameterTarget(Key
     public override double Read(Deck deck) => ((MeasuredOneWay)deck.Coupling).Entries[Entry].Rate;
 
     /// <inheritdoc />
-    public override Deck Apply(Deck deck, double value)
+    public override void Apply(TrialDeck trial, double value)
     {
-        var oneWay = (MeasuredOneWay)deck.Coupling;
-        var entries = oneWay.Entries.ToArray();
+        var entries = trial.Measured((MeasuredOneWay)trial.Base.Coupling);
         entries[Entry] = entries[Entry] with { Rate = value };
-        return deck with { Coupling = oneWay with { Entries = entries } };
     }
 }

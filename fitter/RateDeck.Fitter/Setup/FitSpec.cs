@@ -14,6 +14,7 @@ namespace RateDeck.Fitting.Setup;
 /// <param name="MaxIterations">Iteration limit of each Levenberg-Marquardt run.</param>
 /// <param name="Profile">Whether profile-likelihood intervals are computed.</param>
 /// <param name="Triangle">Measured-triangle mode: every measured one-way rate is free too.</param>
+/// <param name="Derivatives">How the Jacobian is formed.</param>
 public sealed record FitSpec(
     IReadOnlyList<FreeParameterSpec> Free,
     IReadOnlyList<ObservableSpec> Observables,
@@ -22,7 +23,18 @@ public sealed record FitSpec(
     int Seed,
     int MaxIterations,
     bool Profile,
-    bool Triangle);
+    bool Triangle,
+    DerivativeMode Derivatives = DerivativeMode.Auto);
+
+/// <summary>How the fitter forms the Jacobian (<c>fit.derivatives</c>).</summary>
+public enum DerivativeMode
+{
+    /// <summary>Analytic sensitivities where the symmetric eigen path and the deck allow them, central differences elsewhere.</summary>
+    Auto,
+
+    /// <summary>Central differences for every parameter (to compare, or to rule out the analytic path).</summary>
+    Differences,
+}
 
 /// <summary>
 /// One free parameter: <paramref name="Key"/> names what it sets in the deck (kT, a [parameters]

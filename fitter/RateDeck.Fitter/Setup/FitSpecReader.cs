@@ -57,6 +57,13 @@ public static class FitSpecReader
             throw new DeckException(fit.Entry("profile")!.Value.Span, "profile-likelihood intervals are not available yet; remove `profile = true` (the report gives the linearised standard errors)");
         }
 
+        var derivatives = fit.String("derivatives") switch
+        {
+            null => DerivativeMode.Auto,
+            { Value: "auto" } => DerivativeMode.Auto,
+            { Value: "differences" } => DerivativeMode.Differences,
+            var other => throw new DeckException(other.Span, $"`fit.derivatives` is \"{other.Value}\"; give \"auto\" (analytic sensitivities where they apply, central differences elsewhere) or \"differences\" (central differences throughout)"),
+        };
         var triangle = fit.Bool("triangle") ?? false;
         var free = ReadFree(Table(fit, "free"), deckSpan);
         if (free.Count == 0 && !triangle)
@@ -66,7 +73,7 @@ public static class FitSpecReader
 
         var baseDirectory = Path.GetDirectoryName(path) ?? "";
         var data = ReadData(Table(fit, "data"), baseDirectory, fit.Span);
-        return new FitSpec(free, ReadObservables(Table(fit, "observables")), data, (int)starts, (int)seed, (int)maxIterations, fit.Bool("profile") ?? false, triangle);
+        return new FitSpec(free, ReadObservables(Table(fit, "observables")), data, (int)starts, (int)seed, (int)maxIterations, fit.Bool("profile") ?? false, triangle, derivatives);
     }
 
     private static DeckSection Table(DeckSection fit, string key)

@@ -7,15 +7,15 @@ using RateDeck.Propagation;
 namespace RateDeck.Cli.Verbs;
 
 /// <summary>
-/// The files of a run, each written through <see cref="AtomicFile"/> (so an interrupted run leaves
-/// no half-written file): populations of both methods, their differences, the spectrum, the steady
+/// The files of a run, staged in a <see cref="StagedOutputFolder"/> so that they enter the folder all
+/// together or not at all: populations of both methods, their differences, the spectrum, the steady
 /// state, and the plots.
 /// </summary>
 internal sealed class RunOutputs(LoadedDeck loaded, string folder)
 {
     private const int _defaultPlottedStates = 5;
     private readonly OutputHeader _header = OutputHeader.For(loaded.Deck);
-    private readonly List<string> _written = [];
+    private StagedOutputFolder? _staging;
 
     /// <summary>Why the plots asked for were not drawn (no font), or null.</summary>
     public string? PlotsRefused { get; private set; }
@@ -24,7 +24,7 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
     public IReadOnlyList<string> Write(Trajectory exact, Trajectory? explicitResult, Spectrum spectrum, StiffnessReport limits,
         SteadyStateResult steady, double dt, ExplicitMethod method, bool plots, bool writeRates = false)
     {
-        Directory.CreateDirectory(folder);
+        using var staging = _staging = StagedOutputFolder.Begin(folder);
         var deck = loaded.Deck;
         var labels = loaded.States.Labels;
         WriteFile("populations-exact.csv", path => ResultCsv.WriteTrajectory(path, _header, labels, exact, deck.TimeUnit));
@@ -56,7 +56,8 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
             WritePlots(exact, explicitResult, spectrum, limits, steady, dt, method);
         }
 
-        return _written;
+        staging.Commit();
+        return staging.Written;
     }
 
     private void WritePlots(Trajectory exact, Trajectory? explicitResult, Spectrum spectrum, StiffnessReport limits,
@@ -105,9 +106,5 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
         return [.. Enumerable.Range(0, shown).Select(k => shown == 1 ? 0 : (int)Math.Round(k * (count - 1.0) / (shown - 1))).Distinct()];
     }
 
-    private void WriteFile(string name, Action<string> write)
-    {
-        write(Path.Combine(folder, name));
-        _written.Add(name);
-    }
+    private void WriteFile(string name, Action<string> write) => write(_staging!.PathOf(name));
 }

@@ -25,7 +25,7 @@ internal static class DeckSchema
         ["initial"] = ["state", "values", "expression", "equilibrium"],
         ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "times", "plot_states"],
         ["mechanics"] = ["lagrangian", "planck"],
-        ["fit"] = ["starts", "seed", "max_iterations", "profile", "triangle", "free", "observables", "data"],
+        ["fit"] = ["starts", "seed", "max_iterations", "profile", "profile_level", "derivatives", "triangle", "free", "observables", "data"],
     };
 
     /// <summary>Tables whose keys are names the deck chooses (parameter names, state labels).</summary>

@@ -8,7 +8,8 @@ namespace RateDeck.Outputs;
 /// half-written file: the content goes to a hidden temporary file in the same folder
 /// (<c>.name.tmp-XXXXXXXX</c>), is flushed to disk, and only then renamed over the target. A rename
 /// within one folder is atomic on POSIX file systems and on NTFS. When the writer throws, the
-/// temporary file is deleted and the target is left as it was.
+/// temporary file is deleted and the target is left as it was; a run stopped by SIGINT or SIGTERM
+/// deletes it too (<see cref="TemporaryPaths"/>).
 /// </summary>
 public static class AtomicFile
 {
@@ -41,6 +42,7 @@ public static class AtomicFile
         var target = Path.GetFullPath(path);
         var folder = Path.GetDirectoryName(target) ?? throw new ArgumentException($"'{path}' names no file.", nameof(path));
         var temporary = Path.Combine(folder, $".{Path.GetFileName(target)}.tmp-{Convert.ToHexStringLower(RandomNumberGenerator.GetBytes(4))}");
+        using var tracking = TemporaryPaths.Track(temporary);
         try
         {
             using (var stream = new FileStream(temporary, FileMode.CreateNew, FileAccess.Write, FileShare.None))
@@ -50,28 +52,15 @@ public static class AtomicFile
                 // pointing at content that never reached the disk.
                 stream.Flush(flushToDisk: true);
             }
-            File.Move(temporary, target, overwrite: true);
+            using (TemporaryPaths.Hold())
+            {
+                File.Move(temporary, target, overwrite: true);
+            }
         }
         catch
         {
-            TryDelete(temporary);
+            TemporaryPaths.TryDelete(temporary);
             throw;
-        }
-    }
-
-    private static void TryDelete(string temporary)
-    {
-        try
-        {
-            File.Delete(temporary);
-        }
-        catch (IOException)
-        {
-            // Best effort: the original exception is the one worth reporting.
-        }
-        catch (UnauthorizedAccessException)
-        {
-            // Same reason as above.
         }
     }
 }

@@ -189,7 +189,7 @@ public sealed class DeckRun
     /// output time, reusing <see cref="Spectrum"/>'s decomposition.
     /// </summary>
     public IPropagator ExactPropagator => _exactPropagator ??= Options.ExactPath is { } path
-        ? ExactPropagatorChoice.Requested(Loaded.Rates, Spectrum, path)
+        ? ExactPropagatorChoice.Requested(Loaded.Rates, Loaded.Algebra, path, () => Spectrum)
         : ExactPropagatorChoice.Choose(Loaded.Rates, Loaded.Algebra, Balance, Initial, Spectrum, Times[^1]);
 
     /// <summary>P at <see cref="Times"/> by exact propagation.</summary>

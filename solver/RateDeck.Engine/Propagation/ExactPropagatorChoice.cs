@@ -135,20 +135,34 @@ public static class ExactPropagatorChoice
     }
 
     /// <summary>
-    /// The path a user asked for instead of the automatic choice: the implicit integrator (any deck
-    /// with non-negative rates), or the double-double eigen path (a deck completed by detailed
-    /// balance with at most <see cref="Spectrum.ExtendedPrecisionStateLimit"/> states).
+    /// The path a user asked for instead of the automatic choice, or one a caller keeps for many
+    /// matrices (a fit keeps the path chosen at its start for every trial, <see cref="RequestOf"/>):
+    /// the implicit integrator (any deck with non-negative rates), the double-double eigen path (a
+    /// deck completed by detailed balance with at most <see cref="Spectrum.ExtendedPrecisionStateLimit"/>
+    /// states), or the symmetric eigen, general eigen, Pade or contour path. <paramref name="spectrum"/>
+    /// is called only for the double-double path, which reuses its decomposition; the kept eigen
+    /// paths decompose once themselves, and each propagator still refuses a start it cannot serve.
     /// </summary>
     /// <exception cref="ArgumentException">The deck does not allow the path; the message says why.</exception>
-    public static IPropagator Requested(RateMatrix rates, Spectrum spectrum, ExactPathRequest path)
+    public static IPropagator Requested(RateMatrix rates, ILinearAlgebra la, ExactPathRequest path, Func<Spectrum> spectrum)
     {
         ArgumentNullException.ThrowIfNull(rates);
+        ArgumentNullException.ThrowIfNull(la);
         ArgumentNullException.ThrowIfNull(spectrum);
-        if (path == ExactPathRequest.Implicit)
+        switch (path)
         {
-            var implicitPropagator = new ImplicitSdirkPropagator(rates);
-            implicitPropagator.Reason += " (asked for)";
-            return implicitPropagator;
+            case ExactPathRequest.Implicit:
+                var implicitPropagator = new ImplicitSdirkPropagator(rates);
+                implicitPropagator.Reason += " (asked for)";
+                return implicitPropagator;
+            case ExactPathRequest.SymmetricEigen:
+                return new SymmetricEigenPropagator(rates, la);
+            case ExactPathRequest.GeneralEigen:
+                return new GeneralEigenPropagator(rates, la);
+            case ExactPathRequest.Pade:
+                return new PadeExponentialPropagator(rates, la);
+            case ExactPathRequest.Contour:
+                return new ContourExponentialPropagator(rates);
         }
 
         if (rates.Origin != BalanceOrigin.CompletedByDetailedBalance || rates.Count > Spectrum.ExtendedPrecisionStateLimit)
@@ -156,10 +170,23 @@ public static class ExactPropagatorChoice
             throw new ArgumentException(Format($"the double-double eigen path needs a deck completed by detailed balance (one_way or kernel) with at most {Spectrum.ExtendedPrecisionStateLimit} states"), nameof(path));
         }
 
-        var decomposition = spectrum.Extended ?? ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
-        var zero = Precision.ZeroEigenvalueFactor * rates.Count * 2 * DoubleDouble.Epsilon * spectrum.SpectralRadius;
+        var measured = spectrum();
+        var decomposition = measured.Extended ?? ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
+        var zero = Precision.ZeroEigenvalueFactor * rates.Count * 2 * DoubleDouble.Epsilon * measured.SpectralRadius;
         return new ExtendedEigenPropagator(rates, decomposition, zero) { Reason = "symmetric eigen-decomposition in double-double (asked for)" };
     }
+
+    /// <summary>The request that keeps the path of <paramref name="chosen"/> (a propagator this class chose) for other matrices.</summary>
+    public static ExactPathRequest RequestOf(IPropagator chosen) => chosen switch
+    {
+        SymmetricEigenPropagator => ExactPathRequest.SymmetricEigen,
+        GeneralEigenPropagator => ExactPathRequest.GeneralEigen,
+        PadeExponentialPropagator => ExactPathRequest.Pade,
+        ContourExponentialPropagator => ExactPathRequest.Contour,
+        ExtendedEigenPropagator => ExactPathRequest.Extended,
+        ImplicitSdirkPropagator => ExactPathRequest.Implicit,
+        _ => throw new ArgumentException($"no request keeps the path {chosen?.Name}", nameof(chosen)),
+    };
 
     /// <summary>The propagator for a spectrum that double precision does not resolve (over the horizon), or null when it does.</summary>
     private static IPropagator? StiffChoice(RateMatrix rates, Spectrum spectrum, double? horizon)
@@ -203,7 +230,7 @@ public static class ExactPropagatorChoice
     private static string Format(FormattableString text) => text.ToString(CultureInfo.InvariantCulture);
 }
 
-/// <summary>An exact path asked for by the user instead of the automatic choice.</summary>
+/// <summary>An exact path asked for by the user instead of the automatic choice, or kept by a caller for many trials.</summary>
 public enum ExactPathRequest
 {
     /// <summary>The implicit integrator (<see cref="ImplicitSdirkPropagator"/>).</summary>
@@ -211,4 +238,16 @@ public enum ExactPathRequest
 
     /// <summary>The double-double eigen path (<see cref="ExtendedEigenPropagator"/>).</summary>
     Extended,
+
+    /// <summary>The symmetric eigen-decomposition (<see cref="SymmetricEigenPropagator"/>).</summary>
+    SymmetricEigen,
+
+    /// <summary>The general eigen-decomposition (<see cref="GeneralEigenPropagator"/>).</summary>
+    GeneralEigen,
+
+    /// <summary>The Pade matrix exponential (<see cref="PadeExponentialPropagator"/>).</summary>
+    Pade,
+
+    /// <summary>The sparse contour exponential (<see cref="ContourExponentialPropagator"/>).</summary>
+    Contour,
 }

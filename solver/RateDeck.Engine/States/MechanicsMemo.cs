@@ -14,6 +14,10 @@ internal sealed class MechanicsMemo
     private const int _capacity = 4;
 
     private readonly LinkedList<(MechanicsKey Key, MechanicsResult Result)> _recent = new();
+    private int _derivations;
+
+    /// <summary>How many results were derived (not found kept): a fit reports it to show the mechanics is not derived per trial.</summary>
+    public int Derivations => _derivations;
 
     /// <summary>The result for <paramref name="key"/>, derived by <paramref name="derive"/> when not kept.</summary>
     public MechanicsResult GetOrDerive(MechanicsKey key, Func<MechanicsResult> derive)
@@ -30,6 +34,7 @@ internal sealed class MechanicsMemo
         }
 
         var result = derive();
+        Interlocked.Increment(ref _derivations);
         lock (_recent)
         {
             _recent.AddFirst((key, result));

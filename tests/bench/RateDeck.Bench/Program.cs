@@ -15,6 +15,7 @@ var suites = new Dictionary<string, Action<BenchOptions>>
     ["ladder"] = options => LadderBench.Run(options.Sizes, options.Runs, Console.Out),
     ["kernel-assembly"] = options => KernelAssemblyBenchmark.Run(options.Sizes.Max()),
     ["trial"] = options => TrialBench.Run(options.Runs, Console.Out),
+    ["fit"] = options => FitBench.Run(options.Runs, Console.Out),
     ["stiff"] = options => StiffBench.Run(options.Sizes, options.Runs, Console.Out),
     ["slow-modes"] = options => StiffBench.RunSlowRates(options.Sizes, options.Runs, Console.Out),
 };
