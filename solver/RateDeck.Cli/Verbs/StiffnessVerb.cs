@@ -1,3 +1,4 @@
+using System.CommandLine;
 using RateDeck.Cli.CommandLine;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
@@ -13,23 +14,26 @@ namespace RateDeck.Cli.Verbs;
 /// </summary>
 public sealed class StiffnessVerb : IVerb
 {
-    /// <inheritdoc />
-    public VerbSyntax Syntax { get; } = new("stiffness", "spectral radius, stiffness ratio and explicit time-step limits, with a recommendation",
-    [
-        new("--dt", "X", "judge this explicit time step (exit 3 when unsafe for the method)"),
-        new("--t-end", "T", "count steps to this time (default: the deck's run.t_end)"),
-        new("--method", "euler|rk4", "the explicit method the step is judged for (default: the deck's run.explicit)"),
-    ]);
+    // The options of stiffness, declared once here.
+    private readonly Option<double?> _dt = VerbOptions.PositiveNumber("--dt", "X", "judge this explicit time step (exit 3 when unsafe for the method)");
+    private readonly Option<double?> _tEnd = VerbOptions.PositiveNumber("--t-end", "T", "count steps to this time (default: the deck's run.t_end)");
+    private readonly Option<Decks.ExplicitMethod?> _method = VerbOptions.Method("the explicit method the step is judged for (default: the deck's run.explicit)");
+
+    /// <summary>Declares the verb and its options.</summary>
+    public StiffnessVerb() => Command = DeckOptions.Command("stiffness", "spectral radius, stiffness ratio and explicit time-step limits, with a recommendation", _dt, _tEnd, _method);
 
     /// <inheritdoc />
-    public int Execute(ParsedArguments args, VerbContext context)
+    public Command Command { get; }
+
+    /// <inheritdoc />
+    public int Execute(VerbArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
         var run = new DeckRun(loaded, new RunOptions
         {
-            Method = VerbSupport.Method(args),
-            Dt = args.PositiveNumber("--dt"),
-            EndTime = args.PositiveNumber("--t-end"),
+            Method = args.Value(_method),
+            Dt = args.Value(_dt),
+            EndTime = args.Value(_tEnd),
         });
         var spectrum = run.Spectrum;
         var report = run.StepLimits;
@@ -37,7 +41,7 @@ public sealed class StiffnessVerb : IVerb
         var dt = run.Options.Dt;
         var safe = dt is null || run.StepVerdict.Safe;
 
-        if (args.Has("--json"))
+        if (args.Json)
         {
             var fields = VerbSupport.JsonFields(loaded);
             fields["spectral_radius"] = report.SpectralRadius;

@@ -11,14 +11,14 @@ namespace RateDeck.Cli.Verbs;
 internal static class VerbSupport
 {
     /// <summary>Loads the deck named on the command line through the pipeline with the provider asked for.</summary>
-    public static LoadedDeck Load(ParsedArguments args) => DeckPipeline.Load(args.DeckPath, args.Overrides, Algebra(args));
+    public static LoadedDeck Load(VerbArguments args) => DeckPipeline.Load(args.DeckPath, args.Overrides, Algebra(args));
 
     /// <summary>The linear-algebra provider asked for with <c>--linalg</c> (automatic when absent); a bad choice is a usage error.</summary>
-    public static ILinearAlgebra Algebra(ParsedArguments args)
+    public static ILinearAlgebra Algebra(VerbArguments args)
     {
         try
         {
-            return LinearAlgebraProviders.Select(args.Value("--linalg"), out _);
+            return LinearAlgebraProviders.Select(args.LinearAlgebra, out _);
         }
         catch (LinearAlgebraChoiceException e)
         {
@@ -26,9 +26,16 @@ internal static class VerbSupport
         }
     }
 
-    /// <summary>The output folder: <c>--out</c>, else <c>ratedeck-out/&lt;deck file name without extension&gt;</c>.</summary>
-    public static string OutputFolder(ParsedArguments args, Deck deck) =>
-        args.Value("--out") ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(deck.SourcePath));
+    /// <summary>The output folder: <paramref name="asked"/> (<c>--out</c>), else <c>ratedeck-out/&lt;deck file name without extension&gt;</c>.</summary>
+    public static string OutputFolder(string? asked, Deck deck) =>
+        asked ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(deck.SourcePath));
+
+    /// <summary>
+    /// True when a progress bar may be drawn: the verb writes to the console, stdout is a terminal
+    /// (not piped or redirected to a file) and --json did not ask for plain output.
+    /// </summary>
+    public static bool ShowsProgress(VerbArguments args, VerbContext context) =>
+        context.Error == Console.Error && !Console.IsOutputRedirected && !args.Json;
 
     /// <summary>
     /// The provenance every JSON summary starts with (tool version, deck, hash, overrides, provider,
@@ -68,15 +75,6 @@ internal static class VerbSupport
 
     private static string StateRange(string[] labels) =>
         labels.Length <= 4 ? string.Join(", ", labels) : $"{labels[0]} .. {labels[^1]}";
-
-    /// <summary>The explicit method asked for with <c>--method</c>, or null to use the deck's.</summary>
-    public static ExplicitMethod? Method(ParsedArguments args) => args.Value("--method") switch
-    {
-        null => null,
-        "euler" => ExplicitMethod.Euler,
-        "rk4" => ExplicitMethod.RungeKutta4,
-        var other => throw new UsageException($"--method takes euler or rk4, not '{other}'"),
-    };
 
     /// <summary>The command-line name of an explicit method.</summary>
     public static string MethodName(ExplicitMethod method) => Propagation.ExplicitPropagatorChoice.MethodName(method);
