@@ -88,7 +88,7 @@ public sealed class Spectrum
         var slowest = decaying.Count == 0 ? (double?)null : decaying.Min(v => -v.Real);
         if (_nullDimension > StructuralNullDimension)
         {
-            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy (N eps rho = {Format.Number(AbsoluteAccuracy)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
+            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy (N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
         }
         else if (_nullDimension < StructuralNullDimension)
         {
@@ -96,7 +96,7 @@ public sealed class Spectrum
         }
         else if (slowest is { } rate && AbsoluteAccuracy / rate > (extended is null ? SlowModeTolerance : ExtendedSlowModeTolerance))
         {
-            Unresolved = $"the slowest rate {Format.Number(rate)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Number(AbsoluteAccuracy)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
+            Unresolved = $"the slowest rate {Format.Rate(rate, rates.TimeUnit)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
         }
 
         // A slowest rate read from a spectrum that lost modes to rounding would be a faster mode's.
@@ -184,7 +184,7 @@ public sealed class Spectrum
     public string? SlowModeLine => SlowModes switch
     {
         null => null,
-        { Converged: true, Modes.Count: > 0 } found => $"{found.Description}: slowest rate {Format.Number(found.Modes[0].Rate.Real)} (relative error bound {Format.Number(found.Modes[0].ErrorBound)}){(found.Modes.Count > 1 ? $", {Format.Count(found.Modes.Count, "slow mode", "slow modes")} to {Format.Number(found.Modes[^1].Rate.Real)}" : "")}, because in double {Unresolved}",
+        { Converged: true, Modes.Count: > 0 } found => $"{found.Description}: slowest rate {Format.Rate(found.Modes[0].Rate.Real, _rates.TimeUnit)} (relative error bound {Format.Number(found.Modes[0].ErrorBound)}){(found.Modes.Count > 1 ? $", {Format.Count(found.Modes.Count, "slow mode", "slow modes")} to {Format.Rate(found.Modes[^1].Rate.Real, _rates.TimeUnit)}" : "")}, because in double {Unresolved}",
         { Converged: true } => $"{SlowModes.Description}: no mode decays",
         { Failure: var failure } => $"not resolved: {failure}; in double {Unresolved}",
     };

@@ -76,10 +76,11 @@ public static class SteadyState
 
         var classes = TransitionGraph.Classify(rates);
         var approach = spectrum.SlowestRate is { } slowest ? 1 / slowest : double.PositiveInfinity;
+        var unit = rates.TimeUnit;
         var approachText = (spectrum.SlowestRate, spectrum.IsResolved) switch
         {
-            (not null, true) => Format.Number(approach),
-            (not null, false) => $"{Format.Number(approach)} (1 / the slowest rate from inverse subspace iteration on the M-matrix factors; the double spectrum does not resolve it)",
+            (not null, true) => Format.Time(approach, unit),
+            (not null, false) => $"{Format.Time(approach, unit)} (1 / the slowest rate from inverse subspace iteration on the M-matrix factors; the double spectrum does not resolve it)",
             (null, true) => "none (no mode decays)",
             (null, false) => "unknown (the slowest rate is not resolved; see the spectrum line)",
         };
@@ -105,7 +106,7 @@ public static class SteadyState
             {
                 var first = fed[0];
                 var feed = CarriedMass(rates.Pumping, first.Class, classes.Transient, absorption, first.Index);
-                return Fail($"no steady state: the pumping reaches the closed class {Format.Labels(first.Class.Labels)}, which has no loss, at {Format.Number(feed)} per unit time, so its population grows linearly{(fed.Count > 1 ? $" ({fed.Count} such classes)" : "")}", masses, absorption);
+                return Fail($"no steady state: the pumping reaches the closed class {Format.Labels(first.Class.Labels)}, which has no loss, at {Format.Rate(feed, unit)}, so its population grows linearly{(fed.Count > 1 ? $" ({fed.Count} such classes)" : "")}", masses, absorption);
             }
         }
 
@@ -138,12 +139,12 @@ public static class SteadyState
         {
             var conserved = lossFree.Count == 0 ? "" : $", plus the mass of P(0) kept by {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss";
             return new SteadyStateResult(SteadyStateKind.Driven, populations, residual, approach, masses, classes.TransientLabels, absorption, null,
-                $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Number(residual)}; approach time {approachText}");
+                $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Rate(residual, unit)}; approach time {approachText}");
         }
 
         var lost = initial.Sum() - keptMass;
         return new SteadyStateResult(SteadyStateKind.Undriven, populations, residual, approach, masses, classes.TransientLabels, absorption, lost,
-            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Number(residual)}; approach time {approachText}");
+            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Rate(residual, unit)}; approach time {approachText}");
     }
 
     /// <summary>B[t][c] from K_TT^T B = -R.</summary>

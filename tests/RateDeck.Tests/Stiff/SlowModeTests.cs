@@ -156,7 +156,7 @@ public class SlowModeTests
         Assert.Equal(-fixture.SlowRates[0], rows[^2][1], fixture.SlowRates[0] * _tolerance);
         Assert.Equal(1 / fixture.SlowRates[0], rows[^2][3], _tolerance / fixture.SlowRates[0]);
         Assert.Equal(-fixture.SlowRates[1], rows[^3][1], fixture.SlowRates[1] * _tolerance);
-        Assert.Contains($"approach time {RateDeck.Text.Format.Number(1 / fixture.SlowRates[0])} (1 / the slowest rate from inverse subspace iteration", output);
+        Assert.Contains($"approach time {RateDeck.Text.Format.Number(1 / fixture.SlowRates[0])} s (1 / the slowest rate from inverse subspace iteration", output);
     }
 
     /// <summary>A negative rate makes -K no M-matrix: the slow rates are refused, not guessed (the refusal the spectrum keeps).</summary>
