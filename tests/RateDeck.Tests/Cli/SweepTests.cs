@@ -103,10 +103,8 @@ public sealed class SweepTests : IDisposable
     [Fact]
     public void Zip_WithUnequalCounts_IsAUsageError()
     {
-        var (code, _, error) = CliRunner.Run("sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.06:3", "--vary", "run.t_end=1e-3:3e-3:2", "--zip", "--out", _folder.File("s"));
-
-        Assert.Equal(ExitCodes.BadInput, code);
-        Assert.Contains("--zip walks the axes together, so every count must be equal (temperature.kT: 3, run.t_end: 2)", error, StringComparison.Ordinal);
+        AssertBadInput("--zip walks the axes together, so every count must be equal (temperature.kT: 3, run.t_end: 2)",
+            "sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.06:3", "--vary", "run.t_end=1e-3:3e-3:2", "--zip", "--out", _folder.File("s"));
     }
 
     [Fact]
@@ -138,10 +136,7 @@ public sealed class SweepTests : IDisposable
         var sweep = _folder.File("sweep");
         Assert.Equal(ExitCodes.Success, CliRunner.Run("sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.04:2", "--out", sweep).ExitCode);
 
-        var (code, _, error) = CliRunner.Run("sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.06:2", "--out", sweep);
-
-        Assert.Equal(ExitCodes.BadInput, code);
-        Assert.Contains("holds another sweep", error, StringComparison.Ordinal);
+        AssertBadInput("holds another sweep", "sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.06:2", "--out", sweep);
     }
 
     [Fact]
@@ -176,21 +171,15 @@ public sealed class SweepTests : IDisposable
     [InlineData("temperature=0.5:2:3", "--vary temperature=0.5:2:3: `temperature` is a table")]
     public void BadVary_ExitsTwoWithAMessageAtTheSpecification(string spec, string message)
     {
-        var (code, output, error) = CliRunner.Run("sweep", TwoLevel, "--vary", spec, "--out", _folder.File("s"));
+        AssertBadInput(message, "sweep", TwoLevel, "--vary", spec, "--out", _folder.File("s"));
 
-        Assert.Equal(ExitCodes.BadInput, code);
-        Assert.Equal("", output);
-        Assert.Contains(message, error, StringComparison.Ordinal);
         Assert.False(Directory.Exists(_folder.File("s")));
     }
 
     [Fact]
     public void Collect_OnAFolderWithoutManifest_ExitsTwo()
     {
-        var (code, _, error) = CliRunner.Run("collect", _folder.Path);
-
-        Assert.Equal(ExitCodes.BadInput, code);
-        Assert.Contains("holds no sweep.json", error, StringComparison.Ordinal);
+        AssertBadInput("holds no sweep.json", "collect", _folder.Path);
     }
 
     [Fact]
@@ -243,6 +232,16 @@ public sealed class SweepTests : IDisposable
         Assert.Equal(ExitCodes.PointsFailed, collected.ExitCode);
         Assert.Equal(File.ReadAllBytes(Path.Combine(inProcess, "summary.csv")), File.ReadAllBytes(Path.Combine(jobs, "summary.csv")));
         Assert.Equal(["failed", "failed", "ok", "ok", "ok"], Summary(jobs).Rows.Select(r => r[2]));
+    }
+
+    // Exit 2, nothing on stdout, and the message on stderr.
+    private static void AssertBadInput(string message, params string[] args)
+    {
+        var (code, output, error) = CliRunner.Run(args);
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Equal("", output);
+        Assert.Contains(message, error, StringComparison.Ordinal);
     }
 
     private static double Parse(string text) => double.Parse(text, CultureInfo.InvariantCulture);
