@@ -112,7 +112,7 @@ public sealed class RunVerb : IVerb
 
         var outputFolder = VerbSupport.OutputFolder(settings.Out, loaded.Deck);
         var outputs = new RunOutputs(loaded, outputFolder, run);
-        var written = outputs.Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, settings.Plots, settings.WriteRates);
+        var written = outputs.Write(exact, explicitResult, run.Spectrum, steady, dt, run.Method, settings.Plots, settings.WriteRates);
         if (outputs.PlotsRefused is { } refused)
         {
             context.Error.WriteLine($"ratedeck run: {refused}");
