@@ -95,6 +95,7 @@ public sealed class ExtendedEigenPropagator : IPropagator
             throttle.Report((double)(k + 1) / times.Count);
         }
 
+        PropagationInput.PinStart(initial, times, populations);
         throttle.Complete();
         return new Trajectory([.. times], populations);
     }

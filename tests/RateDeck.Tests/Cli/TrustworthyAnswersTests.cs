@@ -201,6 +201,22 @@ public sealed class TrustworthyAnswersTests
         Assert.Equal(expected, times);
     }
 
+    [Theory]
+    [InlineData("stiff-three.toml", "0,0,0,1")]
+    [InlineData("stiff-six.toml", "0,0,0,0,0,0,1")]
+    public void Run_StiffDeckOnTheDoubleDoublePath_StartsAtExactlyPZero(string deck, string startRow)
+    {
+        // The stiff demos start with all population in their top state (decks/stiff-*.toml) and
+        // propagate in double-double, whose round trip through the eigenbasis leaves 1e-32 noise.
+        using var folder = new TempFolder();
+        var (code, output, error) = CliRunner.Run("run", CliRunner.DemoDeck(deck), "--no-plots", "--out", folder.Path);
+        Assert.True(code == ExitCodes.Success, error);
+        Assert.Contains("double-double", output, StringComparison.Ordinal);
+
+        var rows = DataRows(folder.File("populations-exact.csv"));
+        Assert.Equal(startRow, string.Join(",", rows[0]));
+    }
+
     [Fact]
     public void Check_HugeCompletedRate_IsNamedWithItsPairAndBoltzmannFactor()
     {
