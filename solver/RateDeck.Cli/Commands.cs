@@ -1,3 +1,5 @@
+using System.CommandLine;
+using System.CommandLine.Help;
 using RateDeck.Cli.CommandLine;
 using RateDeck.Cli.Verbs;
 using RateDeck.Decks;
@@ -6,45 +8,146 @@ using RateDeck.Text;
 
 namespace RateDeck.Cli;
 
-/// <summary>Dispatches the first argument to a verb and maps every failure to a plain message and an exit code.</summary>
+/// <summary>
+/// Parses the command line (System.CommandLine: docs/cli.md says why), hands it to the verb named
+/// first, and maps every failure to a plain message and a documented exit code.
+/// </summary>
 public static class Commands
 {
-    private static readonly IVerb[] _verbs = [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb()];
+    private const string _helpVerb = "help";
+    private const string _versionOption = "--version";
+    private const int _helpWidth = 100;
+
+    // Response files (@FILE) are off: a deck path starting with @ is a path, not a list of arguments.
+    private static readonly ParserConfiguration _parserConfiguration = new() { ResponseFileTokenReplacer = null };
+
+    /// <summary>
+    /// The whole command line as the parser declares it: the root command <c>ratedeck</c> with one
+    /// subcommand per verb and <c>help</c>. Built anew on every call (the parser's symbols are not
+    /// shared between threads).
+    /// </summary>
+    public static Command Declaration() => Root(Verbs());
 
     /// <summary>Runs the verb named by the first argument.</summary>
     public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
     {
-        if (args.Length == 0 || args[0] is "help" or "--help" or "-h")
+        var verbs = Verbs();
+        var root = Root(verbs);
+        if (args.Length == 0)
         {
-            return Help(args.Skip(1).FirstOrDefault(), stdout, stderr, args.Length == 0 ? ExitCodes.BadInput : ExitCodes.Success);
-        }
-
-        if (args[0] == "--version")
-        {
-            stdout.WriteLine($"ratedeck {ToolInfo.Version}");
-            return ExitCodes.Success;
-        }
-
-        var verb = _verbs.FirstOrDefault(v => v.Syntax.Verb == args[0]);
-        if (verb is null)
-        {
-            stderr.WriteLine($"ratedeck: no verb '{args[0]}'.{Suggestions.Hint(args[0], _verbs.Select(v => v.Syntax.Verb))} The verbs are {string.Join(", ", _verbs.Select(v => v.Syntax.Verb))}");
+            WriteHelp(root, root, stderr);
             return ExitCodes.BadInput;
         }
 
+        var parse = root.Parse(args, _parserConfiguration);
+        var command = parse.CommandResult.Command;
+        if (parse.Action is HelpAction)
+        {
+            WriteHelp(root, command, stdout);
+            return ExitCodes.Success;
+        }
+
+        if (verbs.FirstOrDefault(v => ReferenceEquals(v.Command, command)) is not { } verb)
+        {
+            return RootCommand(parse, root, stdout, stderr);
+        }
+
+        if (UsageMistakes.Find(parse, args) is { } mistake)
+        {
+            stderr.WriteLine($"ratedeck {command.Name}: {mistake}");
+            stderr.WriteLine($"usage: ratedeck {command.Name} {string.Join(" ", command.Arguments.Select(Usage))} [options]; 'ratedeck {command.Name} --help' lists them");
+            return ExitCodes.BadInput;
+        }
+
+        return Execute(verb, new VerbArguments(parse), new VerbContext(stdout, stderr));
+    }
+
+    private static string Usage(Argument argument) => argument.Arity.MinimumNumberOfValues > 0 ? argument.Name : $"[{argument.Name}]";
+
+    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb()];
+
+    private static Command Root(IVerb[] verbs)
+    {
+        var root = new Command(ToolInfo.Name, "Solves and fits kinetic master equations dP/dt = K P + s described by TOML decks.")
+        {
+            new HelpOption { Action = new HelpAction { MaxWidth = _helpWidth } },
+            VerbOptions.Switch(_versionOption, "print the program version"),
+        };
+        foreach (var verb in verbs)
+        {
+            root.Subcommands.Add(verb.Command);
+        }
+
+        root.Subcommands.Add(new Command(_helpVerb, "show the verbs, or one verb's options") { new Argument<string?>("VERB") { Description = "the verb to describe", Arity = ArgumentArity.ZeroOrOne } });
+
+        return root;
+    }
+
+    // The root itself: --version, help [VERB], or a word that is not a verb.
+    private static int RootCommand(ParseResult parse, Command root, TextWriter stdout, TextWriter stderr)
+    {
+        var verbNames = root.Subcommands.Select(c => c.Name).ToList();
+        if (parse.CommandResult.Command.Name == _helpVerb && parse.Errors.Count == 0)
+        {
+            var asked = parse.CommandResult.Tokens.FirstOrDefault()?.Value;
+            if (asked is null)
+            {
+                WriteHelp(root, root, stdout);
+                return ExitCodes.Success;
+            }
+
+            if (root.Subcommands.FirstOrDefault(c => c.Name == asked) is { } described)
+            {
+                WriteHelp(root, described, stdout);
+                return ExitCodes.Success;
+            }
+
+            stderr.WriteLine($"ratedeck help: no verb '{asked}'.{Suggestions.Hint(asked, verbNames)} The verbs are {string.Join(", ", verbNames)}");
+            return ExitCodes.BadInput;
+        }
+
+        if (parse.UnmatchedTokens.Count == 0 && parse.GetResult(_versionOption) is not null)
+        {
+            stdout.WriteLine($"{ToolInfo.Name} {ToolInfo.Version}");
+            return ExitCodes.Success;
+        }
+
+        var word = parse.UnmatchedTokens.FirstOrDefault() ?? "";
+        stderr.WriteLine(word.StartsWith('-')
+            ? $"ratedeck: no option '{word}' before the verb. See 'ratedeck --help'."
+            : $"ratedeck: no verb '{word}'.{Suggestions.Hint(word, verbNames)} The verbs are {string.Join(", ", verbNames)}");
+        return ExitCodes.BadInput;
+    }
+
+    // The parser's own help for a verb (or for the root, with the exit codes after it), at a fixed
+    // width so that it reads the same in a terminal, a pipe and a test.
+    private static void WriteHelp(Command root, Command command, TextWriter output)
+    {
+        string[] args = ReferenceEquals(command, root) ? ["--help"] : [command.Name, "--help"];
+        root.Parse(args, _parserConfiguration).Invoke(new InvocationConfiguration { Output = output, Error = output, EnableDefaultExceptionHandler = false, ProcessTerminationTimeout = null });
+        if (ReferenceEquals(command, root))
+        {
+            output.WriteLine("Exit codes: 0 ok, 1 internal error, 2 bad deck or command line, 3 unsafe time step, 4 check failed,");
+            output.WriteLine("5 output not written, 6 fit not converged (docs/cli.md).");
+        }
+    }
+
+    private static int Execute(IVerb verb, VerbArguments args, VerbContext context)
+    {
+        var stderr = context.Error;
+        var name = verb.Command.Name;
         try
         {
-            var parsed = verb.Syntax.Parse(args[1..]);
-            return verb.Execute(parsed, new VerbContext(stdout, stderr));
+            return verb.Execute(args, context);
         }
         catch (UsageException e)
         {
-            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
+            stderr.WriteLine($"ratedeck {name}: {e.Message}");
             return ExitCodes.BadInput;
         }
         catch (Pipeline.UnsafeStepException e)
         {
-            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
+            stderr.WriteLine($"ratedeck {name}: {e.Message}");
             return ExitCodes.UnsafeTimeStep;
         }
         catch (DeckException e)
@@ -54,24 +157,24 @@ public static class Commands
         }
         catch (LinearAlgebra.DenseStorageException e)
         {
-            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: {e.Message}");
+            stderr.WriteLine($"ratedeck {name}: {e.Message}");
             return ExitCodes.BadInput;
         }
         catch (IOException e)
         {
-            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: could not write output: {e.Message}");
+            stderr.WriteLine($"ratedeck {name}: could not write output: {e.Message}");
             return ExitCodes.OutputFailed;
         }
         catch (UnauthorizedAccessException e)
         {
-            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: could not write output: {e.Message}");
+            stderr.WriteLine($"ratedeck {name}: could not write output: {e.Message}");
             return ExitCodes.OutputFailed;
         }
 #pragma warning disable CA1031 // The last line of defence: a bug must still give one plain line, not a stack trace.
         catch (Exception e)
 #pragma warning restore CA1031
         {
-            stderr.WriteLine($"ratedeck {verb.Syntax.Verb}: internal error ({e.GetType().Name}: {e.Message}); please report it with the deck. Set RATEDECK_TRACE=1 for details.");
+            stderr.WriteLine($"ratedeck {name}: internal error ({e.GetType().Name}: {e.Message}); please report it with the deck. Set RATEDECK_TRACE=1 for details.");
             if (Environment.GetEnvironmentVariable("RATEDECK_TRACE") == "1")
             {
                 stderr.WriteLine(e);
@@ -79,36 +182,5 @@ public static class Commands
 
             return ExitCodes.InternalError;
         }
-    }
-
-    private static int Help(string? verbName, TextWriter stdout, TextWriter stderr, int exitCode)
-    {
-        var writer = exitCode == ExitCodes.Success ? stdout : stderr;
-        var verb = _verbs.FirstOrDefault(v => v.Syntax.Verb == verbName);
-        if (verb is null)
-        {
-            writer.WriteLine("usage: ratedeck VERB DECK [options]");
-            writer.WriteLine();
-            foreach (var v in _verbs)
-            {
-                writer.WriteLine($"  {v.Syntax.Verb,-10} {v.Syntax.Summary}");
-            }
-
-            writer.WriteLine();
-            writer.WriteLine("'ratedeck help VERB' lists a verb's options; exit codes: 0 ok, 1 internal error, 2 bad input,");
-            writer.WriteLine("3 unsafe time step, 4 check failed, 5 output not written, 6 fit not converged (docs/cli.md).");
-            return exitCode;
-        }
-
-        writer.WriteLine($"usage: ratedeck {verb.Syntax.Verb} DECK [options]");
-        writer.WriteLine($"  {verb.Syntax.Summary}");
-        writer.WriteLine();
-        foreach (var option in VerbSyntax.Common.Concat(verb.Syntax.Options))
-        {
-            var left = option.ValueName is null ? option.Name : $"{option.Name} {option.ValueName}";
-            writer.WriteLine($"  {left,-28} {option.Help}");
-        }
-
-        return exitCode;
     }
 }

@@ -1,3 +1,4 @@
+using System.CommandLine;
 using RateDeck.Cli.CommandLine;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
@@ -15,20 +16,23 @@ namespace RateDeck.Cli.Verbs;
 /// </summary>
 public sealed class CheckVerb : IVerb
 {
-    /// <inheritdoc />
-    public VerbSyntax Syntax { get; } = new("check", "assemble the rate matrix and check it: conservation, positivity, detailed balance, classes, null space",
-    [
-        new("--out", "DIR", "output folder for mechanics.csv of a deck with a Lagrangian (default ratedeck-out/<deck name>)"),
-    ]);
+    // The options of check, declared once here.
+    private readonly Option<string?> _out = VerbOptions.Folder("output folder for mechanics.csv of a deck with a Lagrangian (default ratedeck-out/<deck name>)");
+
+    /// <summary>Declares the verb and its options.</summary>
+    public CheckVerb() => Command = DeckOptions.Command("check", "assemble the rate matrix and check it: conservation, positivity, detailed balance, classes, null space", _out);
 
     /// <inheritdoc />
-    public int Execute(ParsedArguments args, VerbContext context)
+    public Command Command { get; }
+
+    /// <inheritdoc />
+    public int Execute(VerbArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
         var report = new DeckRun(loaded).Check;
         var mechanics = loaded.Mechanics is { } derived ? new MechanicsTable(loaded, derived) : null;
-        var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args, loaded.Deck));
-        if (args.Has("--json"))
+        var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args.Value(_out), loaded.Deck));
+        if (args.Json)
         {
             var fields = VerbSupport.JsonFields(loaded);
             fields["ok"] = report.Ok;

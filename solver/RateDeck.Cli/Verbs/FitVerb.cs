@@ -1,3 +1,4 @@
+using System.CommandLine;
 using System.Globalization;
 using RateDeck.Cli.CommandLine;
 using RateDeck.Fitting;
@@ -15,27 +16,30 @@ namespace RateDeck.Cli.Verbs;
 /// </summary>
 public sealed class FitVerb : IVerb
 {
-    /// <inheritdoc />
-    public VerbSyntax Syntax { get; } = new("fit", "fit kT, parameters, rates or initial populations to measured time series; estimates with errors",
-    [
-        new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
-        new("--starts", "N", "number of starting points: the deck's values, then seeded random ones (default: fit.starts or 1)"),
-        new("--seed", "N", "seed of the random starting points (default: fit.seed or 1)"),
-        new("--no-plots", null, "write no PNG plot"),
-    ]);
+    // The options of fit, declared once here.
+    private readonly Option<string?> _out = VerbOptions.Folder("output folder (default: ratedeck-out/<deck name>)");
+    private readonly Option<int?> _starts = VerbOptions.WholeNumber("--starts", "N", "number of starting points: the deck's values, then seeded random ones (default: fit.starts or 1)", minimum: 1);
+    private readonly Option<int?> _seed = VerbOptions.WholeNumber("--seed", "N", "seed of the random starting points (default: fit.seed or 1)", minimum: 0);
+    private readonly Option<bool> _noPlots = VerbOptions.Switch("--no-plots", "write no PNG plot");
+
+    /// <summary>Declares the verb and its options.</summary>
+    public FitVerb() => Command = DeckOptions.Command("fit", "fit kT, parameters, rates or initial populations to measured time series; estimates with errors", _out, _starts, _seed, _noPlots);
 
     /// <inheritdoc />
-    public int Execute(ParsedArguments args, VerbContext context)
+    public Command Command { get; }
+
+    /// <inheritdoc />
+    public int Execute(VerbArguments args, VerbContext context)
     {
         var algebra = VerbSupport.Algebra(args);
-        var options = new FitOptions(Whole(args, "--starts"), Whole(args, "--seed"));
+        var options = new FitOptions(args.Value(_starts), args.Value(_seed));
         var outcome = Fitter.Fit(args.DeckPath, args.Overrides, algebra, options);
-        var folder = VerbSupport.OutputFolder(args, outcome.Deck);
+        var folder = VerbSupport.OutputFolder(args.Value(_out), outcome.Deck);
         Directory.CreateDirectory(folder);
         var files = new List<string> { "residuals.csv", "correlation.csv" };
         FitFiles.WriteResiduals(Path.Combine(folder, files[0]), outcome);
         FitFiles.WriteCorrelation(Path.Combine(folder, files[1]), outcome);
-        if (!args.Has("--no-plots"))
+        if (!args.Has(_noPlots))
         {
             files.Add("fit.png");
             FitPlot.Write(Path.Combine(folder, "fit.png"), outcome);
@@ -46,12 +50,12 @@ public sealed class FitVerb : IVerb
         if (outcome.Report.Converged)
         {
             var name = Path.GetFileNameWithoutExtension(args.DeckPath) + ".fitted.toml";
-            fittedDeck = args.Value("--out") is null ? Path.Combine(Path.GetDirectoryName(args.DeckPath) ?? "", name) : Path.Combine(folder, name);
+            fittedDeck = args.Value(_out) is null ? Path.Combine(Path.GetDirectoryName(args.DeckPath) ?? "", name) : Path.Combine(folder, name);
             notWrittenBack.AddRange(FittedDeckWriter.Write(args.DeckPath, fittedDeck, outcome.Problem.Parameters, outcome.Values, outcome.Deck.EnergyUnit));
         }
 
         var report = outcome.Report;
-        if (args.Has("--json"))
+        if (args.Json)
         {
             var json = Json(outcome, algebra, folder, files);
             json["fitted_deck"] = fittedDeck;
@@ -73,30 +77,12 @@ public sealed class FitVerb : IVerb
         return report.Converged ? ExitCodes.Success : ExitCodes.NotConverged;
     }
 
-    private static int? Whole(ParsedArguments args, string option)
-    {
-        var text = args.Value(option);
-        if (text is null)
-        {
-            return null;
-        }
-
-        return int.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var value) && value >= (option == "--starts" ? 1 : 0)
-            ? value
-            : throw new UsageException($"{option} takes a whole number{(option == "--starts" ? " of 1 or more" : "")}, not '{text}'");
-    }
-
     private static Dictionary<string, object?> Json(FitOutcome outcome, ILinearAlgebra algebra, string folder, List<string> files)
     {
         var report = outcome.Report;
         var deck = outcome.Deck;
-        return new Dictionary<string, object?>
+        return new Dictionary<string, object?>(VerbSupport.JsonFields(deck, algebra))
         {
-            ["tool_version"] = ToolInfo.Version,
-            ["deck"] = deck.SourcePath,
-            ["deck_sha256"] = deck.Sha256,
-            ["overrides"] = deck.Overrides,
-            ["linear_algebra"] = algebra.Name,
             ["converged"] = report.Converged,
             ["stop_reason"] = StopText(report),
             ["parameters"] = report.Parameters.ToDictionary(p => p.Name, p => new Dictionary<string, object?>
@@ -115,6 +101,8 @@ public sealed class FitVerb : IVerb
             ["iterations"] = report.Best.Iterations,
             ["function_evaluations"] = report.Best.ResidualEvaluations,
             ["jacobian_evaluations"] = report.Best.JacobianEvaluations,
+            ["trajectory_evaluations"] = report.TrajectoryEvaluations,
+            ["derivatives"] = report.Derivatives,
             ["infeasible_trials"] = report.Best.InfeasibleTrials,
             ["starts"] = report.Starts.Run,
             ["starts_converged"] = report.Starts.Converged,
@@ -162,7 +150,11 @@ public sealed class FitVerb : IVerb
         }
 
         output.WriteLine($"result       {(report.Converged ? "converged" : "NOT CONVERGED")}: {StopText(report)}");
-        output.WriteLine($"             {report.Best.Iterations} iterations, {report.Best.ResidualEvaluations} model evaluations, {report.Best.JacobianEvaluations} Jacobians; starts {report.Starts.Run} ({report.Starts.Converged} converged)");
+        output.WriteLine($"             {report.Best.Iterations} iterations, {report.Best.ResidualEvaluations} model evaluations, {report.Best.JacobianEvaluations} Jacobians; starts {report.Starts.Run} ({report.Starts.Converged} converged); {report.TrajectoryEvaluations} trajectories in all");
+        foreach (var group in report.Derivatives.GroupBy(d => d.Value))
+        {
+            output.WriteLine($"derivatives  {string.Join(", ", group.Select(d => d.Key))}: {group.Key}");
+        }
         output.WriteLine();
         var width = Math.Max(10, report.Parameters.Max(p => p.Name.Length));
         output.WriteLine($"  {"parameter".PadRight(width)}  {"estimate",-22} {"std error",-12} {"start",-12}{(report.Parameters.Any(p => p.ProfileLower is not null) ? " profile interval" : "")}");

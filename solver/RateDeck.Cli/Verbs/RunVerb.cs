@@ -1,3 +1,4 @@
+using System.CommandLine;
 using RateDeck.Cli.CommandLine;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
@@ -15,37 +16,45 @@ namespace RateDeck.Cli.Verbs;
 /// </summary>
 public sealed class RunVerb : IVerb
 {
-    /// <inheritdoc />
-    public VerbSyntax Syntax { get; } = new("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, plots",
-    [
-        new("--dt", "X|auto", "explicit time step (default: the deck's run.dt; auto = the step whose estimated error meets run.accuracy, at most run.safety x the stability limit)"),
-        new("--method", "euler|rk4", "explicit method (default: the deck's run.explicit)"),
-        new("--out", "DIR", "output folder (default: ratedeck-out/<deck name>)"),
-        new("--exact-only", null, "skip the explicit method"),
-        new("--exact", "auto|implicit|extended", "exact path: auto (default: chosen from the spectrum, reason printed), the implicit integrator, or the double-double eigen path"),
-        new("--implicit", null, "also run the implicit integrator beside explicit and exact, and compare it with exact"),
-        new("--allow-unstable", null, "run an explicit step above the stability limit anyway, to see it fail"),
-        new("--require-accuracy", null, "exit 4 when explicit and exact differ by more than run.accuracy of the total"),
-        new("--no-plots", null, "write no PNG plots"),
-        new("--write-rates", null, "also write the assembled rate matrix K as rate-matrix.csv (from, to, rate triplets)"),
-    ]);
+    // The options of run, declared once here.
+    private readonly Option<StepRequest?> _dt = VerbOptions.Single<StepRequest?>("--dt", "X|auto", "explicit time step (default: the deck's run.dt; auto = the step whose estimated error meets run.accuracy, at most run.safety x the stability limit)", StepRequest.Parse);
+    private readonly Option<Decks.ExplicitMethod?> _method = VerbOptions.Method("explicit method (default: the deck's run.explicit)");
+    private readonly Option<string?> _out = VerbOptions.Folder("output folder (default: ratedeck-out/<deck name>)");
+    private readonly Option<bool> _exactOnly = VerbOptions.Switch("--exact-only", "skip the explicit method");
+    private readonly Option<string?> _exact = VerbOptions.Word("--exact", "exact path: auto (default: chosen from the spectrum, reason printed), the implicit integrator, or the double-double eigen path", "auto", "implicit", "extended");
+    private readonly Option<bool> _implicit = VerbOptions.Switch("--implicit", "also run the implicit integrator beside explicit and exact, and compare it with exact");
+    private readonly Option<bool> _allowUnstable = VerbOptions.Switch("--allow-unstable", "run an explicit step above the stability limit anyway, to see it fail");
+    private readonly Option<bool> _requireAccuracy = VerbOptions.Switch("--require-accuracy", "exit 4 when explicit and exact differ by more than run.accuracy of the total");
+    private readonly Option<bool> _noPlots = VerbOptions.Switch("--no-plots", "write no PNG plots");
+    private readonly Option<bool> _writeRates = VerbOptions.Switch("--write-rates", "also write the assembled rate matrix K as rate-matrix.csv (from, to, rate triplets)");
+
+    /// <summary>Declares the verb and its options.</summary>
+    public RunVerb() => Command = DeckOptions.Command("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, plots",
+        _dt, _method, _out, _exactOnly, _exact, _implicit, _allowUnstable, _requireAccuracy, _noPlots, _writeRates);
 
     /// <inheritdoc />
-    public int Execute(ParsedArguments args, VerbContext context)
+    public Command Command { get; }
+
+    /// <inheritdoc />
+    public int Execute(VerbArguments args, VerbContext context)
     {
-        var method = VerbSupport.Method(args);
         var loaded = VerbSupport.Load(args);
-        var dtText = args.Value("--dt");
+        var step = args.Value(_dt);
         var run = new DeckRun(loaded, new RunOptions
         {
-            Method = method,
-            Dt = dtText == "auto" ? null : args.PositiveNumber("--dt"),
-            AutomaticDt = dtText == "auto",
-            ExactOnly = args.Has("--exact-only"),
-            AllowUnsafeStep = args.Has("--allow-unstable"),
-            ExactPath = ExactPath(args),
-            WithImplicit = args.Has("--implicit"),
-            Progress = label => new TerminalProgress($"{label,-8}", enabled: context.Error == Console.Error),
+            Method = args.Value(_method),
+            Dt = step?.Fixed,
+            AutomaticDt = step is { Fixed: null },
+            ExactOnly = args.Has(_exactOnly),
+            AllowUnsafeStep = args.Has(_allowUnstable),
+            ExactPath = args.Value(_exact) switch
+            {
+                "implicit" => ExactPathRequest.Implicit,
+                "extended" => ExactPathRequest.Extended,
+                _ => null,
+            },
+            WithImplicit = args.Has(_implicit),
+            Progress = label => new TerminalProgress($"{label,-8}", enabled: VerbSupport.ShowsProgress(args, context)),
         });
         var explicitWanted = !run.Options.ExactOnly && run.ExplicitDeclined is null;
         if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
@@ -64,7 +73,7 @@ public sealed class RunVerb : IVerb
         }
         catch (ArgumentException e) when (run.Options.ExactPath is not null)
         {
-            throw new UsageException($"--exact {args.Value("--exact")}: {e.Message}");
+            throw new UsageException($"--exact {args.Value(_exact)}: {e.Message}");
         }
 
         var exact = run.Exact;
@@ -76,9 +85,9 @@ public sealed class RunVerb : IVerb
         var dt = run.ExplicitStep;
         var stabilityLimit = run.StabilityLimit;
 
-        var outputFolder = VerbSupport.OutputFolder(args, loaded.Deck);
+        var outputFolder = VerbSupport.OutputFolder(args.Value(_out), loaded.Deck);
         var outputs = new RunOutputs(loaded, outputFolder);
-        var written = outputs.Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has("--no-plots"), args.Has("--write-rates"));
+        var written = outputs.Write(exact, explicitResult, run.Spectrum, steady, dt, run.Method, !args.Has(_noPlots), args.Has(_writeRates));
         if (outputs.PlotsRefused is { } refused)
         {
             context.Error.WriteLine($"ratedeck run: {refused}");
@@ -86,7 +95,7 @@ public sealed class RunVerb : IVerb
 
 
         var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
-        if (args.Has("--json"))
+        if (args.Json)
         {
             var fields = VerbSupport.JsonFields(loaded);
             fields["propagator"] = exactPropagator.Name;
@@ -125,7 +134,7 @@ public sealed class RunVerb : IVerb
 
             if (run.ExplicitPropagator is { } explicitPropagator)
             {
-                context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
+                context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Time(dt, loaded.Deck.TimeUnit)} (stability limit {Format.Time(stabilityLimit, loaded.Deck.TimeUnit)}); {explicitPropagator.Reason}");
                 context.Out.WriteLine($"             {run.AccurateStep?.Reason ?? "dt as given, not chosen for accuracy"}");
             }
             else if (run.ExplicitDeclined is { } declined)
@@ -138,11 +147,11 @@ public sealed class RunVerb : IVerb
                 context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
             }
 
-            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Number(run.Times[^1])} {loaded.Deck.TimeUnit}");
+            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Time(run.Times[^1], loaded.Deck.TimeUnit)}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
             if (run.ImplicitDifference is { } versus)
             {
-                context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Number(versus.WorstTime)}, state {loaded.States.Labels[versus.WorstState]})");
+                context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Time(versus.WorstTime, loaded.Deck.TimeUnit)}, state {loaded.States.Labels[versus.WorstState]})");
             }
 
             if (run.AccuracyMet == false)
@@ -154,7 +163,7 @@ public sealed class RunVerb : IVerb
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
         }
 
-        if (run.AccuracyMet == false && args.Has("--require-accuracy"))
+        if (run.AccuracyMet == false && args.Has(_requireAccuracy))
         {
             context.Error.WriteLine($"ratedeck run: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above run.accuracy = {Format.Number(loaded.Deck.Run.Accuracy)} (--require-accuracy)");
             return ExitCodes.CheckFailed;
@@ -163,21 +172,12 @@ public sealed class RunVerb : IVerb
         return ExitCodes.Success;
     }
 
-    /// <summary>The exact path asked for with --exact; null for auto (the engine chooses and says why).</summary>
-    private static ExactPathRequest? ExactPath(ParsedArguments args) => args.Value("--exact") switch
-    {
-        null or "auto" => null,
-        "implicit" => ExactPathRequest.Implicit,
-        "extended" => ExactPathRequest.Extended,
-        var other => throw new UsageException($"--exact takes auto, implicit or extended, not '{other}'"),
-    };
-
     private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)
     {
         output.WriteLine();
         if (difference is not null)
         {
-            output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Number(difference.WorstTime)}, state {loaded.States.Labels[difference.WorstState]})");
+            output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Time(difference.WorstTime, loaded.Deck.TimeUnit)}, state {loaded.States.Labels[difference.WorstState]})");
         }
 
         if (LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit) is { } note)

@@ -1,3 +1,4 @@
+using System.CommandLine;
 using RateDeck.Cli.CommandLine;
 using RateDeck.Diagnostics;
 using RateDeck.Outputs;
@@ -15,18 +16,21 @@ public sealed class SteadyVerb : IVerb
 {
     private const int _listedStates = 12;
 
-    /// <inheritdoc />
-    public VerbSyntax Syntax { get; } = new("steady", "the steady state reached from the deck's initial state, its residual and approach time",
-    [
-        new("--out", "DIR", "output folder for steady-state.csv (default: ratedeck-out/<deck name>)"),
-    ]);
+    // The options of steady, declared once here.
+    private readonly Option<string?> _out = VerbOptions.Folder("output folder for steady-state.csv (default: ratedeck-out/<deck name>)");
+
+    /// <summary>Declares the verb and its options.</summary>
+    public SteadyVerb() => Command = DeckOptions.Command("steady", "the steady state reached from the deck's initial state, its residual and approach time", _out);
 
     /// <inheritdoc />
-    public int Execute(ParsedArguments args, VerbContext context)
+    public Command Command { get; }
+
+    /// <inheritdoc />
+    public int Execute(VerbArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
         var steady = new DeckRun(loaded).Steady;
-        var folder = VerbSupport.OutputFolder(args, loaded.Deck);
+        var folder = VerbSupport.OutputFolder(args.Value(_out), loaded.Deck);
         string? file = null;
         if (steady.Populations is { } populations)
         {
@@ -35,7 +39,7 @@ public sealed class SteadyVerb : IVerb
             ResultCsv.WriteSteadyState(file, OutputHeader.For(loaded.Deck), loaded.States.Labels, loaded.States.Coordinates, populations, loaded.States.LogEquilibrium);
         }
 
-        if (args.Has("--json"))
+        if (args.Json)
         {
             var fields = VerbSupport.JsonFields(loaded);
             fields["kind"] = steady.Kind.ToString().ToLowerInvariant();
@@ -69,7 +73,7 @@ public sealed class SteadyVerb : IVerb
             return;
         }
 
-        output.WriteLine($"  residual |K P + s| = {Format.Number(steady.Residual ?? double.NaN)}, approach time {Format.Number(steady.ApproachTime)} {loaded.Deck.TimeUnit}, total population {Format.Number(populations.Sum())}");
+        output.WriteLine($"  residual |K P + s| = {Format.Rate(steady.Residual ?? double.NaN, loaded.Deck.TimeUnit)}, approach time {Format.Time(steady.ApproachTime, loaded.Deck.TimeUnit)}, total population {Format.Number(populations.Sum())}");
         output.WriteLine();
         var labels = loaded.States.Labels;
         var shown = labels.Length <= _listedStates ? Enumerable.Range(0, labels.Length) : Enumerable.Range(0, labels.Length).OrderByDescending(i => populations[i]).Take(_listedStates).Order();

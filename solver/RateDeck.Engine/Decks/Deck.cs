@@ -22,8 +22,22 @@ public sealed record Deck
     /// <summary>The unit of every energy in the deck, kT included.</summary>
     public required EnergyUnit EnergyUnit { get; init; }
 
-    /// <summary>The unit of time, a label carried into outputs (rates are per this unit).</summary>
+    /// <summary>
+    /// The unit of time of every result: the run's times (<see cref="Run"/>, already converted), the
+    /// rates of the assembled matrix (per this unit), summaries, files and plots. It is
+    /// <c>[units] output_time</c> when the deck gives one, else the unit the deck's numbers are in.
+    /// </summary>
     public required string TimeUnit { get; init; }
+
+    /// <summary>
+    /// The unit the deck's own numbers are in when it differs from <see cref="TimeUnit"/>: the rates
+    /// of the rate file, kernel, losses and pumping are per this unit, and mechanics.planck is in it;
+    /// null when the deck's numbers are in <see cref="TimeUnit"/> already.
+    /// </summary>
+    public string? GivenTimeUnit { get; init; }
+
+    /// <summary>Turns a rate per <see cref="GivenTimeUnit"/> into one per <see cref="TimeUnit"/> (the assembler applies it).</summary>
+    public RateConversion RateConversion { get; init; } = RateConversion.None;
 
     /// <summary>kT in <see cref="EnergyUnit"/> (a temperature in kelvin is already converted).</summary>
     public required double KT { get; init; }
@@ -60,6 +74,9 @@ public sealed record Deck
 
     /// <summary>Time span, output grid and explicit step.</summary>
     public required RunSpec Run { get; init; }
+
+    /// <summary>What the plots call the state coordinate, and how their axes are scaled.</summary>
+    public PlotSpec Plot { get; init; } = PlotSpec.Default;
 
     /// <summary>A one-degree-of-freedom Lagrangian, when weights are derived from mechanics.</summary>
     public MechanicsSpec? Mechanics { get; init; }
@@ -126,6 +143,33 @@ public sealed record GridSpec(double[] Coordinates, string[] Labels, double[] Ce
 {
     /// <summary>Number of states.</summary>
     public int Count => Coordinates.Length;
+
+    /// <summary>How a generated grid is spaced; null for coordinates listed by the deck.</summary>
+    public GridSpacing? Spacing { get; init; }
+}
+
+/// <summary>How the points of a grid (states, output times) or a plot axis are spaced.</summary>
+public enum GridSpacing
+{
+    /// <summary>Evenly in x: a linear axis.</summary>
+    Linear,
+    /// <summary>Evenly in ln x: a logarithmic axis.</summary>
+    Logarithmic,
+}
+
+/// <summary>
+/// The plot keys: the name and unit of the state coordinate (<c>states.coordinate_name</c>,
+/// <c>states.coordinate_unit</c>) and the axis scales (<c>plot.time_axis</c>,
+/// <c>plot.state_axis</c>; null: follow the grid's spacing).
+/// </summary>
+/// <param name="CoordinateName">What the state coordinate is, e.g. "wave number k"; null: "state coordinate".</param>
+/// <param name="CoordinateUnit">The coordinate's unit, e.g. "1/nm"; null when it has none.</param>
+/// <param name="TimeAxis">The time axes' scale, or null to follow the output grid.</param>
+/// <param name="StateAxis">The state-coordinate axes' scale, or null to follow the state grid.</param>
+public sealed record PlotSpec(string? CoordinateName, string? CoordinateUnit, GridSpacing? TimeAxis, GridSpacing? StateAxis)
+{
+    /// <summary>No name or unit given, both axes following their grids.</summary>
+    public static PlotSpec Default { get; } = new(null, null, null, null);
 }
 
 /// <summary>A per-state quantity: explicit values or an expression of the state.</summary>

@@ -65,6 +65,8 @@ public static partial class DeckReader
 
     private sealed record RateFileKey(string FullPath, string Labels, RateCsvReader.Rules Rules);
 
+    private sealed record InitialFileKey(string FullPath, string Labels);
+
     [GeneratedRegex("^[A-Za-z_][A-Za-z0-9_]*$")]
     private static partial Regex IdentifierPattern();
 
@@ -75,6 +77,7 @@ public static partial class DeckReader
         private readonly SourceSpan _deckSpan = root.Span;
         private GridSpec _grid = null!;
         private StateNames _states = null!;
+        private (string Given, string Output) _time = ("s", "s");
 
         public Deck Build(string sha256, IReadOnlyList<DeckOverride> overrides)
         {
@@ -83,12 +86,12 @@ public static partial class DeckReader
             var title = top.String("title") is { } t ? (string)t.Value : Path.GetFileNameWithoutExtension(path);
             var units = Section("units");
             var energyUnit = ReadEnergyUnit(units);
-            var timeUnit = ReadTimeUnit(units);
+            _time = ReadTimeUnits(units);
             var (kT, kTSpan) = ReadTemperature(Section("temperature"), energyUnit);
             var parameters = ReadParameters(Section("parameters"));
             _grid = GridReader.Read(Section("states"));
             _states = new StateNames(_grid.Labels);
-            var mechanics = ReadMechanics(Section("mechanics"), energyUnit, timeUnit);
+            var mechanics = ReadMechanics(Section("mechanics"), energyUnit, _time.Given);
             var energies = ReadEnergies(Section("energies"));
             var weightsSection = Section("weights");
             var weights = ReadWeights(weightsSection, mechanics);
@@ -109,7 +112,9 @@ public static partial class DeckReader
                 Title = title,
                 FormatVersion = format,
                 EnergyUnit = energyUnit,
-                TimeUnit = timeUnit,
+                TimeUnit = _time.Output,
+                GivenTimeUnit = _time.Given == _time.Output ? null : _time.Given,
+                RateConversion = _time.Given == _time.Output ? RateConversion.None : TimeUnits.RateFactor(_time.Given, _time.Output),
                 KT = kT,
                 KTSpan = kTSpan,
                 Grid = _grid,
@@ -122,6 +127,7 @@ public static partial class DeckReader
                 Initial = ReadInitial(Section("initial")),
                 Run = ReadRun(Section("run")),
                 Mechanics = mechanics,
+                Plot = ReadPlot(Section("states"), Section("plot")),
                 Parameters = parameters,
                 Overrides = overrides.Select(o => o.ToString()).ToArray(),
                 AppliedOverrides = overrides.ToArray(),
@@ -151,17 +157,75 @@ public static partial class DeckReader
                 : throw new DeckException(scalar.ContentSpan, $"unknown energy unit \"{name}\".{Suggestions.Hint(name, EnergyUnits.Names)} Choose one of {string.Join(", ", EnergyUnits.Names.Select(n => $"\"{n}\""))}.");
         }
 
-        private static string ReadTimeUnit(DeckSection units)
+        /// <summary>
+        /// The unit the deck's rates and times are given in (<c>time</c>, a known unit, default s; or
+        /// <c>model_time</c>, a name without conversion) and the unit outputs are written in
+        /// (<c>output_time</c>, default the given one).
+        /// </summary>
+        private static (string Given, string Output) ReadTimeUnits(DeckSection units)
         {
-            if (units.String("time") is not { } scalar)
+            if (units.Choice(DeckSchema.Alternatives["units"]) == "model_time")
             {
-                return "s";
+                var scalar = units.String("model_time")!;
+                var name = ((string)scalar.Value).Trim();
+                if (name.Length == 0 || name.Any(char.IsControl))
+                {
+                    throw new DeckException(scalar.ContentSpan, "`units.model_time` must be a short name on one line, like \"t0\"");
+                }
+
+                if (TimeUnits.IsKnown(name))
+                {
+                    throw new DeckException(scalar.ContentSpan, $"\"{name}\" is a time unit RateDeck converts; write time = \"{name}\" instead of model_time");
+                }
+
+                units.Forbid("output_time", $"a model time unit (\"{name}\") has no conversion to other units; to write outputs in another unit, give the rates' unit as time = one of {KnownTimeUnits}");
+                return (name, name);
+            }
+
+            var given = units.String("time") is { } time ? KnownTimeUnit(time, "time") : "s";
+            var output = units.String("output_time") is { } written ? KnownTimeUnit(written, "output_time") : given;
+            return (given, output);
+        }
+
+        private static string KnownTimeUnits => string.Join(", ", TimeUnits.Names.Select(n => $"\"{n}\""));
+
+        private static string KnownTimeUnit(TomlScalar scalar, string key)
+        {
+            var name = (string)scalar.Value;
+            if (TimeUnits.IsKnown(name))
+            {
+                return name;
+            }
+
+            var model = key == "time" ? $"; for a model unit without conversion write model_time = \"{name.Trim()}\" instead" : "";
+            throw new DeckException(scalar.ContentSpan, $"unknown time unit \"{name}\" in `units.{key}`.{Suggestions.Hint(name, TimeUnits.Names)} Known units: {KnownTimeUnits}{model}.");
+        }
+
+        /// <summary>states.coordinate_name and states.coordinate_unit (labels on one line), [plot] axis scales.</summary>
+        private static PlotSpec ReadPlot(DeckSection states, DeckSection plot)
+        {
+            static GridSpacing? Axis(DeckSection plot, string key) => plot.Word(key, ["auto", "linear", "log"]) switch
+            {
+                "linear" => GridSpacing.Linear,
+                "log" => GridSpacing.Logarithmic,
+                _ => null,
+            };
+
+            return new PlotSpec(PlotLabel(states, "coordinate_name", "\"wave number k\""), PlotLabel(states, "coordinate_unit", "\"1/nm\""),
+                Axis(plot, "time_axis"), Axis(plot, "state_axis"));
+        }
+
+        private static string? PlotLabel(DeckSection section, string key, string example)
+        {
+            if (section.String(key) is not { } scalar)
+            {
+                return null;
             }
 
             var label = ((string)scalar.Value).Trim();
             return label.Length > 0 && !label.Any(char.IsControl)
                 ? label
-                : throw new DeckException(scalar.ContentSpan, "`units.time` must be a short label on one line, like \"s\" or \"ms\"");
+                : throw new DeckException(scalar.ContentSpan, $"`{section.Qualified(key)}` is a label for the plots' axes and must be a short text on one line, like {example}");
         }
 
         private static (double KT, SourceSpan Span) ReadTemperature(DeckSection temperature, EnergyUnit unit)
@@ -329,27 +393,43 @@ public static partial class DeckReader
 
         private (IReadOnlyList<RateEntry> Entries, SourceSpan Span) ReadCsv(DeckSection transfer, RateCsvReader.Rules rules)
         {
-            var csv = transfer.RequireString("csv", "the file of measured rates, columns from,to,rate");
-            var given = (string)csv.Value;
-            if (given.Trim().Length == 0)
-            {
-                throw new DeckException(csv.ContentSpan, "`transfer.csv` is empty; name the rate file, like \"rates.csv\"");
-            }
-
-            if (given.Contains('\0', StringComparison.Ordinal))
-            {
-                throw new DeckException(csv.ContentSpan, "`transfer.csv` contains a NUL character (\\u0000); write the file name without it");
-            }
-
-            var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);
-            var fullPath = Path.GetFullPath(display);
+            var (display, fullPath, span) = CsvPath(transfer, "the file of measured rates, columns from,to,rate", "rate file", "rates.csv");
 
             // A deck derived by overrides reads the file once: the rows depend only on the file,
             // the state labels (which resolve its cells) and the declared direction.
             var entries = memo.GetOrAdd(
                 new RateFileKey(fullPath, string.Join('\n', _grid.Labels), rules),
-                () => RateCsvReader.Read(display, fullPath, csv.ContentSpan, _states, rules));
-            return (entries, csv.ContentSpan);
+                () => RateCsvReader.Read(display, fullPath, span, _states, rules));
+            return (entries, span);
+        }
+
+        /// <summary>The file named by <c>csv</c> in <paramref name="section"/>: as shown (relative to the deck's folder), its full path, and the span of the value.</summary>
+        private (string Display, string FullPath, SourceSpan Span) CsvPath(DeckSection section, string what, string noun, string example)
+        {
+            var csv = section.RequireString("csv", what);
+            var given = (string)csv.Value;
+            if (given.Trim().Length == 0)
+            {
+                throw new DeckException(csv.ContentSpan, $"`{section.Qualified("csv")}` is empty; name the {noun}, like \"{example}\"");
+            }
+
+            if (given.Contains('\0', StringComparison.Ordinal))
+            {
+                throw new DeckException(csv.ContentSpan, $"`{section.Qualified("csv")}` contains a NUL character (\\u0000); write the file name without it");
+            }
+
+            var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);
+            return (display, Path.GetFullPath(display), csv.ContentSpan);
+        }
+
+        /// <summary>[initial] csv: populations per state from a file, read once for every deck derived from this one.</summary>
+        private InitialGiven ReadInitialCsv(DeckSection initial)
+        {
+            var (display, fullPath, span) = CsvPath(initial, "the file of initial populations, columns state,population", "initial population file", "initial.csv");
+            var populations = memo.GetOrAdd(
+                new InitialFileKey(fullPath, string.Join('\n', _grid.Labels)),
+                () => InitialCsvReader.Read(display, fullPath, span, _states));
+            return new InitialGiven(new PerStateValues((double[])populations.Clone(), span));
         }
 
         /// <summary>[losses] or [pumping]: optional, per time unit, never negative.</summary>
@@ -408,6 +488,8 @@ public static partial class DeckReader
                     return new InitialGiven(Values(initial, "values", (value, n) => NonNegative(value, n, "initial.values")));
                 case "expression":
                     return new InitialGiven(Expression(initial, "expression"));
+                case "csv":
+                    return ReadInitialCsv(initial);
                 case "equilibrium":
                     var flag = initial.Entry("equilibrium")!.Value;
                     return DeckSection.AsBool(flag, "initial.equilibrium")
@@ -415,7 +497,7 @@ public static partial class DeckReader
                         : throw new DeckException(flag.Span, "`initial.equilibrium = false` chooses nothing; give state, values or expression instead");
                 default:
                     return initial.Exists
-                        ? throw NoChoice(initial, "state, values, expression or equilibrium = true")
+                        ? throw NoChoice(initial, "state, values, expression, csv or equilibrium = true")
                         : new InitialEquilibrium(_deckSpan);
             }
         }
@@ -480,8 +562,16 @@ public static partial class DeckReader
             var plotStates = run.Array("plot_states") is { } plots
                 ? plots.Items.Select(item => _states.Resolve(item, "run.plot_states")).ToArray()
                 : [];
-            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span) { Accuracy = accuracy, ListedTimes = listed };
+            // The deck's times are in its given unit; the run and its outputs are in the output unit.
+            return new RunSpec(OutputTime(tEnd), (int)outputs, spacing, tFirst is { } first ? OutputTime(first) : null, method, dt is { } step ? OutputTime(step) : null, safety, plotStates, run.Span)
+            {
+                Accuracy = accuracy,
+                ListedTimes = listed?.Select(OutputTime).ToArray(),
+            };
         }
+
+        /// <summary>A time of the deck (in its given unit) in the output unit.</summary>
+        private double OutputTime(double time) => _time.Given == _time.Output ? time : TimeUnits.ConvertTime(time, _time.Given, _time.Output);
 
         /// <summary>run.times: measurement times, strictly ascending in (0, t_end]; not with a grid's keys.</summary>
         private static double[]? ReadListedTimes(DeckSection run, double tEnd)

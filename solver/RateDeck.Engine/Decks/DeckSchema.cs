@@ -13,18 +13,19 @@ internal static class DeckSchema
     /// <summary>The tables and their keys; <see cref="OpenTables"/> take any key.</summary>
     public static readonly IReadOnlyDictionary<string, string[]> Tables = new Dictionary<string, string[]>(StringComparer.Ordinal)
     {
-        ["units"] = ["energy", "time"],
+        ["units"] = ["energy", "time", "model_time", "output_time"],
         ["temperature"] = ["kT", "kelvin"],
         ["parameters"] = [],
-        ["states"] = ["coordinates", "labels", "spacing", "count", "from", "to", "label_prefix"],
+        ["states"] = ["coordinates", "labels", "spacing", "count", "from", "to", "label_prefix", "coordinate_name", "coordinate_unit"],
         ["energies"] = ["values", "expression"],
         ["weights"] = ["values", "expression", "isotropic_dimension", "from_mechanics"],
         ["transfer"] = ["kind", "direction", "csv", "kernel", "band"],
         ["losses"] = ["values", "expression", "by_state"],
         ["pumping"] = ["values", "expression", "by_state"],
-        ["initial"] = ["state", "values", "expression", "equilibrium"],
+        ["initial"] = ["state", "values", "expression", "equilibrium", "csv"],
         ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "times", "plot_states"],
         ["mechanics"] = ["lagrangian", "planck"],
+        ["plot"] = ["time_axis", "state_axis"],
         ["fit"] = ["starts", "seed", "max_iterations", "profile", "profile_level", "derivatives", "triangle", "free", "observables", "data"],
     };
 
@@ -34,12 +35,13 @@ internal static class DeckSchema
     /// <summary>Keys of a table that are alternative ways to give the same thing: at most one may appear.</summary>
     public static readonly IReadOnlyDictionary<string, string[]> Alternatives = new Dictionary<string, string[]>(StringComparer.Ordinal)
     {
+        ["units"] = ["time", "model_time"],
         ["temperature"] = ["kT", "kelvin"],
         ["energies"] = ["values", "expression"],
         ["weights"] = ["values", "expression", "isotropic_dimension", "from_mechanics"],
         ["losses"] = ["values", "expression", "by_state"],
         ["pumping"] = ["values", "expression", "by_state"],
-        ["initial"] = ["state", "values", "expression", "equilibrium"],
+        ["initial"] = ["state", "values", "expression", "equilibrium", "csv"],
     };
 
     /// <summary>Every name allowed at the top level.</summary>

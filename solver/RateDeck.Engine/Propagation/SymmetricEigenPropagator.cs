@@ -86,7 +86,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         ZeroEigenvalueCount = _values.Count(l => l == 0);
         Reason = string.Create(
             CultureInfo.InvariantCulture,
-            $"symmetric eigen-decomposition of D^-1/2 K D^1/2 ({la.Name}); {ZeroEigenvalueCount} zero eigenvalue(s) within {Text.Format.Number(ZeroTolerance)}");
+            $"symmetric eigen-decomposition of D^-1/2 K D^1/2 ({la.Name}); {ZeroEigenvalueCount} zero eigenvalue(s) within {Text.Format.Rate(ZeroTolerance, rates.TimeUnit)}");
     }
 
     /// <inheritdoc />
@@ -97,6 +97,9 @@ public sealed class SymmetricEigenPropagator : IPropagator
 
     /// <summary>Eigenvalues of S (= those of K), ascending, with those within <see cref="ZeroTolerance"/> of zero set to 0.</summary>
     public IReadOnlyList<double> Eigenvalues => _values;
+
+    /// <summary>The orthonormal eigenvectors V of S, column m for <see cref="Eigenvalues"/>[m] (shared, not copied: do not modify).</summary>
+    internal DenseMatrix Vectors => _vectors;
 
     /// <summary>rho = max |l|.</summary>
     public double SpectralRadius { get; }

@@ -6,7 +6,8 @@ namespace RateDeck.Tests.Cli;
 
 /// <summary>
 /// Command-line mistakes a user makes are refused with exit 2 and a message naming the option,
-/// before anything runs or is written: never a silent guess (issue 9 §8).
+/// before anything runs or is written: never a silent guess (issue 9 §2 and §8). Switches take no
+/// value, values are typed, and `--` ends the options.
 /// </summary>
 public sealed class CommandLineMistakeTests : IDisposable
 {
@@ -54,5 +55,96 @@ public sealed class CommandLineMistakeTests : IDisposable
 
         Assert.Equal(ExitCodes.BadInput, code);
         Assert.Equal("--set title.x=1: `title` holds a value, not a table; set it as title=...\n", error);
+    }
+
+    [Theory]
+    [InlineData("--json=no")]
+    [InlineData("--json=true")]
+    [InlineData("--no-plots=1")]
+    public void SwitchGivenAValue_IsAUsageErrorAndRunsNothing(string switchWithValue)
+    {
+        var output = _folder.File("out");
+        var (code, stdout, error) = CliRunner.Run("run", CliRunner.DemoDeck("two-level.toml"), "--out", output, switchWithValue);
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Equal("", stdout);
+        Assert.Contains($"'{switchWithValue}'", error, StringComparison.Ordinal);
+        Assert.Contains("takes no value", error, StringComparison.Ordinal);
+        Assert.False(Directory.Exists(output));
+    }
+
+    [Theory]
+    [InlineData("fit", "--starts", "1.5", "whole number")]
+    [InlineData("fit", "--seed", "-3", "whole number")]
+    [InlineData("stiffness", "--dt", "fast", "positive number")]
+    [InlineData("stiffness", "--t-end", "0", "positive number")]
+    [InlineData("run", "--method", "rk5", "euler or rk4")]
+    [InlineData("run", "--exact", "best", "auto, implicit or extended")]
+    [InlineData("check", "--linalg", "gpu", "auto, native or managed")]
+    public void ValueOfTheWrongType_IsAUsageErrorNamingTheOptionAndWhatItTakes(string verb, string option, string value, string takes)
+    {
+        var (code, stdout, error) = CliRunner.Run(verb, CliRunner.DemoDeck("two-level.toml"), option, value);
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Equal("", stdout);
+        Assert.Contains($"{option} takes", error, StringComparison.Ordinal);
+        Assert.Contains(takes, error, StringComparison.Ordinal);
+        Assert.Contains($"'{value}'", error, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData("--set", "KEY=VALUE")]
+    [InlineData("--out", "DIR")]
+    [InlineData("--linalg", "auto|native|managed")]
+    public void OptionWithoutValueAtTheEnd_SaysItNeedsOneAndWhatKind(string option, string valueName)
+    {
+        var result = CliRunner.Run("check", CliRunner.DemoDeck("two-level.toml"), option);
+
+        Assert.Equal((ExitCodes.BadInput, ""), (result.ExitCode, result.Out));
+        Assert.StartsWith($"ratedeck check: {option} needs a value ({valueName})", result.Error, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void DoubleDash_EndsTheOptions_SoAWordLikeAnOptionIsTheDeck()
+    {
+        // After `--`, "--json" is the deck's file name, not the switch: the deck is looked for and not found.
+        var (code, stdout, error) = CliRunner.Run("check", "--", "--json");
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Equal("", stdout);
+        Assert.Contains("--json", error, StringComparison.Ordinal);
+        Assert.DoesNotContain("no option", error, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void DoubleDash_BeforeTheDeck_RunsAsWithout()
+    {
+        var deck = CliRunner.DemoDeck("two-level.toml");
+
+        var (code, stdout, _) = CliRunner.Run("check", "--json", "--", deck);
+
+        Assert.Equal(ExitCodes.Success, code);
+        Assert.Equal(CliRunner.Run("check", deck, "--json").Out, stdout);
+    }
+
+    [Fact]
+    public void TwoDecks_AreRefusedNamingBoth()
+    {
+        var (code, _, error) = CliRunner.Run("check", "a.toml", "b.toml");
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Contains("'a.toml' and 'b.toml'", error, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void DeckNamedLikeAResponseFile_IsAPathNotAListOfArguments()
+    {
+        var list = _folder.File("args");
+        File.WriteAllText(list, "--json\n");
+
+        var (code, _, error) = CliRunner.Run("check", "@" + list);
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Contains("@" + list, error, StringComparison.Ordinal);
     }
 }

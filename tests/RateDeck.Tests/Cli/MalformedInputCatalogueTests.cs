@@ -39,7 +39,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         new(Deck(top: "format = 1 # caf§\uFFFD"), null, "byte 0xE9 is not valid UTF-8; save the file as UTF-8 text"),
         new(Deck(top: "format = 1\ntitle = \"a§\u0001b\""), null, "control character U+0001 in the text; the file must be plain text (is it binary or damaged?)"),
         new(Deck(extra: "x = " + new string('[', 63) + "§[" + new string(']', 64)), null, "TOML syntax: arrays or inline tables nested 64 deep; a deck needs only a few levels"),
-        new(Deck(units: "energy = \"eV\"\n§x = " + new string('[', 63) + new string(']', 63)), null, "unknown key `x` in [units]. Its keys are energy, time."),
+        new(Deck(units: "energy = \"eV\"\n§x = " + new string('[', 63) + new string(']', 63)), null, "unknown key `x` in [units]. Its keys are energy, time, model_time, output_time."),
         new("format = 1\ntitle = §\n", null, "TOML syntax: Unexpected token end-of-line found while expecting a value"),
         new(Deck(run: "t_end = 1.0\n§t_end = 2.0"), null, "TOML syntax: The key `run.t_end` is already defined at (19,1) with `t_end = 1.0` and cannot be redefined"),
         new(Deck(extra: "§[[series]]\nx = 1"), null, "arrays of tables ([[...]]) are not part of the deck format; use a plain [table]"),
@@ -48,7 +48,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         new(Deck(top: "§title = \"no format line\""), null, "the deck must start with `format = 1` (the deck format version)"),
         new("§" + Deck().Replace("[run]\nt_end = 1.0\n", "", StringComparison.Ordinal), null, "the deck needs a [run] table with `t_end` (the end time of the run, > 0)"),
         new("§" + Deck().Replace("[temperature]\nkT = 0.5\n", "", StringComparison.Ordinal), null, "the deck needs a [temperature] table with kT (in the energy unit) or kelvin"),
-        new(Deck(units: "§enrgy = \"eV\""), null, "unknown key `enrgy` in [units]. Did you mean `energy`? Its keys are energy, time."),
+        new(Deck(units: "§enrgy = \"eV\""), null, "unknown key `enrgy` in [units]. Did you mean `energy`? Its keys are energy, time, model_time, output_time."),
         // Values of the wrong kind or range.
         new(Deck(units: "energy = \"§ev\""), null, "unknown energy unit \"ev\". Did you mean `eV`? Choose one of \"eV\", \"K\", \"cm-1\", \"J\", \"kJ/mol\", \"none\"."),
         new(Deck(temperature: "kT = §-0.5"), null, "`temperature.kT` must be > 0, not -0.5"),

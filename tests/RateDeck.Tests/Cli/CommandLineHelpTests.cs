@@ -1,0 +1,51 @@
+using RateDeck.Cli;
+using Xunit;
+
+namespace RateDeck.Tests.Cli;
+
+/// <summary>Every verb has its own help under --help and -h, made from the parser's declarations (issue 9 §2).</summary>
+public sealed class CommandLineHelpTests
+{
+    public static TheoryData<string> Verbs()
+    {
+        var data = new TheoryData<string>();
+        foreach (var verb in Commands.Declaration().Subcommands)
+        {
+            data.Add(verb.Name);
+        }
+
+        return data;
+    }
+
+    [Theory]
+    [MemberData(nameof(Verbs))]
+    public void EveryVerb_HelpAndShortHelp_ShowItsUsageAndEveryOptionItDeclares(string verb)
+    {
+        var declared = Commands.Declaration().Subcommands.Single(c => c.Name == verb);
+
+        var help = CliRunner.Run(verb, "--help");
+        var shortHelp = CliRunner.Run(verb, "-h");
+
+        Assert.Equal(ExitCodes.Success, help.ExitCode);
+        Assert.Equal(help.Out, shortHelp.Out);
+        Assert.Contains($"ratedeck {verb}", help.Out, StringComparison.Ordinal);
+        Assert.All(declared.Options.Where(o => !o.Hidden), option => Assert.Contains(option.Name, help.Out, StringComparison.Ordinal));
+        Assert.Equal("", help.Error);
+    }
+
+    [Fact]
+    public void HelpVerb_WithAVerb_PrintsThatVerbsHelp()
+    {
+        Assert.Equal(CliRunner.Run("run", "--help").Out, CliRunner.Run("help", "run").Out);
+    }
+
+    [Fact]
+    public void NoArguments_ShowsTheVerbsOnStandardErrorWithExitTwo()
+    {
+        var (code, output, error) = CliRunner.Run();
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Equal("", output);
+        Assert.Contains("stiffness", error, StringComparison.Ordinal);
+    }
+}
