@@ -128,7 +128,7 @@ public static class Commands
         if (ReferenceEquals(command, root))
         {
             output.WriteLine("Exit codes: 0 ok, 1 internal error, 2 bad deck or command line, 3 unsafe time step, 4 check failed,");
-            output.WriteLine("5 output not written, 6 fit not converged (docs/cli.md).");
+            output.WriteLine("5 output not written, 6 fit not converged, 130 stopped by SIGINT, 143 by SIGTERM (docs/cli.md).");
         }
     }
 
