@@ -15,7 +15,7 @@ public sealed class WrapperScriptTests
     [Fact]
     public async Task Script_RunsTheProgramWithItsArgumentsAndExitCode()
     {
-        var root = RepositoryRoot();
+        var root = CliRunner.RepositoryRoot();
 
         var ok = await RunScriptAsync(root, "check", Path.Combine(root, "decks", "two-level.toml"), "--json");
         var bad = await RunScriptAsync(root, "check", Path.Combine(root, "decks", "two-level.toml"), "--jsn");
@@ -40,18 +40,5 @@ public sealed class WrapperScriptTests
         var stderr = process.StandardError.ReadToEndAsync();
         await process.WaitForExitAsync().WaitAsync(TimeSpan.FromMinutes(5));
         return (process.ExitCode, await stdout, await stderr);
-    }
-
-    private static string RepositoryRoot()
-    {
-        for (var folder = new DirectoryInfo(AppContext.BaseDirectory); folder is not null; folder = folder.Parent)
-        {
-            if (File.Exists(Path.Combine(folder.FullName, "RateDeck.sln")))
-            {
-                return folder.FullName;
-            }
-        }
-
-        throw new InvalidOperationException($"no RateDeck.sln above {AppContext.BaseDirectory}");
     }
 }
