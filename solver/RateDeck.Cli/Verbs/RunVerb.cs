@@ -123,6 +123,14 @@ public sealed class RunVerb : IVerb
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
+        else if (args.Quiet)
+        {
+            var explicitPart = explicitMethod is not null && difference is not null
+                ? $"{explicitMethod} dt = {Format.Number(dt)} {loaded.Deck.TimeUnit} differs from exact by {Format.Number(difference.MaxRelativeToTotal)} of the total"
+                : run.ExplicitDeclined is not null ? "explicit declined" : "exact only";
+            var steadyPart = distance is { } d ? $", {Format.Number(d)} from the steady state at t_end" : "";
+            context.Out.WriteLine($"run {loaded.Deck.SourcePath}: exact {exactPropagator.Name}, {explicitPart}{steadyPart}; wrote {written.Count} files to {outputFolder}");
+        }
         else
         {
             VerbSupport.WriteDeckLine(context.Out, loaded);
