@@ -86,13 +86,8 @@ public sealed class FitVerb : IVerb
     {
         var report = outcome.Report;
         var deck = outcome.Deck;
-        return new Dictionary<string, object?>
+        return new Dictionary<string, object?>(VerbSupport.JsonFields(deck, algebra))
         {
-            ["tool_version"] = ToolInfo.Version,
-            ["deck"] = deck.SourcePath,
-            ["deck_sha256"] = deck.Sha256,
-            ["overrides"] = deck.Overrides,
-            ["linear_algebra"] = algebra.Name,
             ["converged"] = report.Converged,
             ["stop_reason"] = StopText(report),
             ["parameters"] = report.Parameters.ToDictionary(p => p.Name, p => new Dictionary<string, object?>

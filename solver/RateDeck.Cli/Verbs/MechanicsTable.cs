@@ -31,7 +31,7 @@ internal sealed class MechanicsTable(LoadedDeck loaded, MechanicsResult result)
     {
         Directory.CreateDirectory(folder);
         var path = Path.Combine(folder, FileName);
-        var (energy, time) = (EnergyUnits.Name(Deck.EnergyUnit), Deck.TimeUnit);
+        var (energy, time) = (EnergyUnits.Name(Deck.EnergyUnit), MechanicsTimeUnit);
         ResultCsv.WritePerStateTable(path, OutputHeader.For(Deck), loaded.States.Labels,
         [
             new CsvColumn("energy", Energies, energy),
@@ -65,8 +65,11 @@ internal sealed class MechanicsTable(LoadedDeck loaded, MechanicsResult result)
                 $"  {loaded.States.Labels[i],-10} {Energies[i],13:G6} {result.Actions[i],13:G6} {result.Periods[i],13:G6} {result.Weights[i],13:G6} {Format.Number(result.RelativeErrors[i]),11}"));
         }
 
-        output.WriteLine($"  units: energy {EnergyUnits.Name(Deck.EnergyUnit)}, time {Deck.TimeUnit}; every state in {csvPath}");
+        output.WriteLine($"  units: energy {EnergyUnits.Name(Deck.EnergyUnit)}, time {MechanicsTimeUnit}; every state in {csvPath}");
     }
+
+    /// <summary>Periods and actions are in the unit of the deck's Planck constant: the deck's given time unit, not the output unit.</summary>
+    private string MechanicsTimeUnit => Deck.GivenTimeUnit ?? Deck.TimeUnit;
 
     /// <summary>Every state up to <see cref="_fullListLimit"/>; beyond, the first and the last <see cref="_endRows"/>.</summary>
     private static IEnumerable<int> ShownRows(int count) => count <= _fullListLimit

@@ -142,7 +142,7 @@ public sealed class RunVerb : IVerb
 
             if (run.ExplicitPropagator is { } explicitPropagator)
             {
-                context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Number(dt)} (stability limit {Format.Number(stabilityLimit)}); {explicitPropagator.Reason}");
+                context.Out.WriteLine($"explicit     {explicitMethod}, dt = {Format.Time(dt, loaded.Deck.TimeUnit)} (stability limit {Format.Time(stabilityLimit, loaded.Deck.TimeUnit)}); {explicitPropagator.Reason}");
                 context.Out.WriteLine($"             {run.AccurateStep?.Reason ?? "dt as given, not chosen for accuracy"}");
             }
             else if (run.ExplicitDeclined is { } declined)
@@ -155,11 +155,11 @@ public sealed class RunVerb : IVerb
                 context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
             }
 
-            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Number(run.Times[^1])} {loaded.Deck.TimeUnit}");
+            context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Time(run.Times[^1], loaded.Deck.TimeUnit)}");
             WriteResults(context.Out, loaded, exact, steady, difference, distance);
             if (run.ImplicitDifference is { } versus)
             {
-                context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Number(versus.WorstTime)}, state {loaded.States.Labels[versus.WorstState]})");
+                context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Time(versus.WorstTime, loaded.Deck.TimeUnit)}, state {loaded.States.Labels[versus.WorstState]})");
             }
 
             if (run.AccuracyMet == false)
@@ -185,7 +185,7 @@ public sealed class RunVerb : IVerb
         output.WriteLine();
         if (difference is not null)
         {
-            output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Number(difference.WorstTime)}, state {loaded.States.Labels[difference.WorstState]})");
+            output.WriteLine($"  explicit vs exact: max |difference| {Format.Number(difference.MaxAbsolute)}, max relative {Format.Number(difference.MaxRelative)}, relative to the total {Format.Number(difference.MaxRelativeToTotal)} (at t = {Format.Time(difference.WorstTime, loaded.Deck.TimeUnit)}, state {loaded.States.Labels[difference.WorstState]})");
         }
 
         if (LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit) is { } note)

@@ -86,29 +86,31 @@ public sealed class StiffnessVerb : IVerb
 
     private static void WriteSummary(TextWriter output, LoadedDeck loaded, Spectrum spectrum, StiffnessReport report, DeckRun run)
     {
+        var unit = loaded.Deck.TimeUnit;
         VerbSupport.WriteDeckLine(output, loaded);
         output.WriteLine($"spectrum     {spectrum.PathReason}");
         output.WriteLine();
-        output.WriteLine($"  spectral radius rho      {Format.Number(report.SpectralRadius)}");
-        output.WriteLine($"  slowest non-zero rate    {(spectrum.IsResolved || report.SlowestRate is not null ? Optional(report.SlowestRate) : $"not resolved (below about {Format.Number(spectrum.AbsoluteAccuracy)})")}");
+        output.WriteLine($"  spectral radius rho      {Format.Rate(report.SpectralRadius, unit)}");
+        output.WriteLine($"  slowest non-zero rate    {(spectrum.IsResolved || report.SlowestRate is not null ? OptionalRate(report.SlowestRate, unit) : $"not resolved (below about {Format.Rate(spectrum.AbsoluteAccuracy, unit)})")}");
         output.WriteLine($"  stiffness ratio          {Optional(report.StiffnessRatio)}");
-        output.WriteLine($"  max |K_ii|               {Format.Number(report.MaxDiagonalRate)}");
+        output.WriteLine($"  max |K_ii|               {Format.Rate(report.MaxDiagonalRate, unit)}");
         if (spectrum.Unresolved is { } unresolved)
         {
             output.WriteLine($"  NOT RESOLVED             {unresolved}; the slow rates above are not to be trusted (run takes an accurate path and names it on its exact line)");
         }
         output.WriteLine();
-        var horizon = report.Horizon is { } h ? $"steps to t = {Format.Number(h)}{(report.HorizonIsEndTime ? "" : " (1/slowest rate)")}" : "steps";
-        output.WriteLine($"  {"limit",-16} {"largest dt",-12} {horizon}");
+        var horizon = report.Horizon is { } h ? $"steps to t = {Format.Time(h, unit)}{(report.HorizonIsEndTime ? "" : " (1/slowest rate)")}" : "steps";
+        var heading = $"largest dt ({unit})";
+        output.WriteLine($"  {"limit",-16} {heading,-16} {horizon}");
         foreach (var limit in report.Limits)
         {
-            output.WriteLine($"  {limit.Name,-16} {Format.Number(limit.MaxStep),-12} {Optional(limit.Steps),-12} {limit.Basis}");
+            output.WriteLine($"  {limit.Name,-16} {Format.Number(limit.MaxStep),-16} {Optional(limit.Steps),-12} {limit.Basis}");
         }
 
         if (report.Dt is { } dt)
         {
             output.WriteLine();
-            output.WriteLine($"  dt = {Format.Number(dt)}: euler {Verdict(report.EulerSafe)}, rk4 {Verdict(report.Rk4Safe)}, positivity {(report.PositivityPreserving == true ? "kept" : "NOT kept")} (forward Euler)");
+            output.WriteLine($"  dt = {Format.Time(dt, unit)}: euler {Verdict(report.EulerSafe)}, rk4 {Verdict(report.Rk4Safe)}, positivity {(report.PositivityPreserving == true ? "kept" : "NOT kept")} (forward Euler)");
             var verdict = run.StepVerdict.Safe ? "safe" : $"UNSAFE: {run.StepVerdict.Problem}";
             var whose = run.MethodFromOptions ? "for the method asked for" : "for the deck's method";
             output.WriteLine($"  {whose} ({VerbSupport.MethodName(run.Method)}) the step is {verdict}");
@@ -117,13 +119,15 @@ public sealed class StiffnessVerb : IVerb
                 var within = report.WithinBudget == true
                     ? $"within the budget of {Format.Number(StepLimits.ExplicitStepBudget)} explicit steps"
                     : $"ABOVE the budget of {Format.Number(StepLimits.ExplicitStepBudget)} explicit steps: refused; run the deck with exact propagation (ratedeck run declines the explicit method)";
-                output.WriteLine($"  explicit stepping at dt = {Format.Number(dt)} needs {Format.Count(steps)} steps to t = {Format.Number(report.Horizon!.Value)}: {within}");
+                output.WriteLine($"  explicit stepping at dt = {Format.Time(dt, unit)} needs {Format.Count(steps)} steps to t = {Format.Time(report.Horizon!.Value, unit)}: {within}");
             }
         }
 
         output.WriteLine();
         output.WriteLine($"recommendation: {report.Recommendation}");
     }
+
+    private static string OptionalRate(double? value, string unit) => value is { } v ? Format.Rate(v, unit) : "-";
 
     private static string Optional(double? value) => value is { } v ? Format.Number(v) : "-";
 

@@ -39,19 +39,26 @@ internal static class VerbSupport
 
     /// <summary>
     /// The provenance every JSON summary starts with (tool version, deck, hash, overrides, provider,
-    /// state count); a verb adds its own snake_case keys in order.
+    /// state count, kT and its units, the unit of every time and rate that follows and the unit the
+    /// deck's own numbers are in); a verb adds its own snake_case keys in order.
     /// </summary>
-    public static Dictionary<string, object?> JsonFields(LoadedDeck loaded) => new()
+    public static Dictionary<string, object?> JsonFields(LoadedDeck loaded) => JsonFields(loaded.Deck, loaded.Algebra);
+
+    /// <summary>The provenance of <see cref="JsonFields(LoadedDeck)"/> for a verb that holds the deck without its assembled stages (fit).</summary>
+    public static Dictionary<string, object?> JsonFields(Deck deck, ILinearAlgebra algebra) => new()
     {
         ["tool_version"] = ToolInfo.Version,
-        ["deck"] = loaded.Deck.SourcePath,
-        ["deck_sha256"] = loaded.Deck.Sha256,
-        ["overrides"] = loaded.Deck.Overrides,
-        ["linear_algebra"] = loaded.Algebra.Name,
-        ["states"] = loaded.States.Count,
-        ["kt"] = loaded.Deck.KT,
-        ["energy_unit"] = EnergyUnits.Name(loaded.Deck.EnergyUnit),
-        ["temperature_kelvin"] = EnergyUnits.KelvinFromKT(loaded.Deck.KT, loaded.Deck.EnergyUnit),
+        ["deck"] = deck.SourcePath,
+        ["deck_sha256"] = deck.Sha256,
+        ["overrides"] = deck.Overrides,
+        ["linear_algebra"] = algebra.Name,
+        ["states"] = deck.Grid.Count,
+        ["kt"] = deck.KT,
+        ["energy_unit"] = EnergyUnits.Name(deck.EnergyUnit),
+        ["temperature_kelvin"] = EnergyUnits.KelvinFromKT(deck.KT, deck.EnergyUnit),
+        ["time_unit"] = deck.TimeUnit,
+        ["rate_unit"] = Format.RateUnit(deck.TimeUnit),
+        ["deck_time_unit"] = deck.GivenTimeUnit ?? deck.TimeUnit,
     };
 
     /// <summary>The first lines of every summary: which deck, how many states, which provider.</summary>
@@ -66,6 +73,10 @@ internal static class VerbSupport
 
         output.WriteLine($"states       {loaded.States.Count} ({StateRange(loaded.States.Labels)})   linear algebra: {loaded.Algebra.Name}");
         output.WriteLine($"temperature  {Temperature(deck)}");
+        if (deck.GivenTimeUnit is { } given)
+        {
+            output.WriteLine($"time unit    {deck.TimeUnit} in every result; the deck's rates are per {given} and its times in {given}, converted");
+        }
     }
 
     /// <summary>"kT = 0.05 eV (T = 580 K)"; a deck in model units has no kelvin and says so.</summary>

@@ -22,8 +22,22 @@ public sealed record Deck
     /// <summary>The unit of every energy in the deck, kT included.</summary>
     public required EnergyUnit EnergyUnit { get; init; }
 
-    /// <summary>The unit of time, a label carried into outputs (rates are per this unit).</summary>
+    /// <summary>
+    /// The unit of time of every result: the run's times (<see cref="Run"/>, already converted), the
+    /// rates of the assembled matrix (per this unit), summaries, files and plots. It is
+    /// <c>[units] output_time</c> when the deck gives one, else the unit the deck's numbers are in.
+    /// </summary>
     public required string TimeUnit { get; init; }
+
+    /// <summary>
+    /// The unit the deck's own numbers are in when it differs from <see cref="TimeUnit"/>: the rates
+    /// of the rate file, kernel, losses and pumping are per this unit, and mechanics.planck is in it;
+    /// null when the deck's numbers are in <see cref="TimeUnit"/> already.
+    /// </summary>
+    public string? GivenTimeUnit { get; init; }
+
+    /// <summary>Turns a rate per <see cref="GivenTimeUnit"/> into one per <see cref="TimeUnit"/> (the assembler applies it).</summary>
+    public RateConversion RateConversion { get; init; } = RateConversion.None;
 
     /// <summary>kT in <see cref="EnergyUnit"/> (a temperature in kelvin is already converted).</summary>
     public required double KT { get; init; }

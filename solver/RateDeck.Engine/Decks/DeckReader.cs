@@ -74,6 +74,7 @@ public static partial class DeckReader
         private readonly SourceSpan _deckSpan = SourceSpan.None(path);
         private GridSpec _grid = null!;
         private StateNames _states = null!;
+        private (string Given, string Output) _time = ("s", "s");
 
         public Deck Build(string sha256, IReadOnlyList<DeckOverride> overrides)
         {
@@ -82,12 +83,12 @@ public static partial class DeckReader
             var title = top.String("title") is { } t ? (string)t.Value : Path.GetFileNameWithoutExtension(path);
             var units = Section("units");
             var energyUnit = ReadEnergyUnit(units);
-            var timeUnit = ReadTimeUnit(units);
+            _time = ReadTimeUnits(units);
             var (kT, kTSpan) = ReadTemperature(Section("temperature"), energyUnit);
             var parameters = ReadParameters(Section("parameters"));
             _grid = GridReader.Read(Section("states"));
             _states = new StateNames(_grid.Labels);
-            var mechanics = ReadMechanics(Section("mechanics"), energyUnit, timeUnit);
+            var mechanics = ReadMechanics(Section("mechanics"), energyUnit, _time.Given);
             var energies = ReadEnergies(Section("energies"));
             var weightsSection = Section("weights");
             var weights = ReadWeights(weightsSection, mechanics);
@@ -108,7 +109,9 @@ public static partial class DeckReader
                 Title = title,
                 FormatVersion = format,
                 EnergyUnit = energyUnit,
-                TimeUnit = timeUnit,
+                TimeUnit = _time.Output,
+                GivenTimeUnit = _time.Given == _time.Output ? null : _time.Given,
+                RateConversion = _time.Given == _time.Output ? RateConversion.None : TimeUnits.RateFactor(_time.Given, _time.Output),
                 KT = kT,
                 KTSpan = kTSpan,
                 Grid = _grid,
@@ -150,17 +153,48 @@ public static partial class DeckReader
                 : throw new DeckException(scalar.ContentSpan, $"unknown energy unit \"{name}\".{Suggestions.Hint(name, EnergyUnits.Names)} Choose one of {string.Join(", ", EnergyUnits.Names.Select(n => $"\"{n}\""))}.");
         }
 
-        private static string ReadTimeUnit(DeckSection units)
+        /// <summary>
+        /// The unit the deck's rates and times are given in (<c>time</c>, a known unit, default s; or
+        /// <c>model_time</c>, a name without conversion) and the unit outputs are written in
+        /// (<c>output_time</c>, default the given one).
+        /// </summary>
+        private static (string Given, string Output) ReadTimeUnits(DeckSection units)
         {
-            if (units.String("time") is not { } scalar)
+            if (units.Choice(DeckSchema.Alternatives["units"]) == "model_time")
             {
-                return "s";
+                var scalar = units.String("model_time")!;
+                var name = ((string)scalar.Value).Trim();
+                if (name.Length == 0 || name.Any(char.IsControl))
+                {
+                    throw new DeckException(scalar.ContentSpan, "`units.model_time` must be a short name on one line, like \"t0\"");
+                }
+
+                if (TimeUnits.IsKnown(name))
+                {
+                    throw new DeckException(scalar.ContentSpan, $"\"{name}\" is a time unit RateDeck converts; write time = \"{name}\" instead of model_time");
+                }
+
+                units.Forbid("output_time", $"a model time unit (\"{name}\") has no conversion to other units; to write outputs in another unit, give the rates' unit as time = one of {KnownTimeUnits}");
+                return (name, name);
             }
 
-            var label = ((string)scalar.Value).Trim();
-            return label.Length > 0 && !label.Any(char.IsControl)
-                ? label
-                : throw new DeckException(scalar.ContentSpan, "`units.time` must be a short label on one line, like \"s\" or \"ms\"");
+            var given = units.String("time") is { } time ? KnownTimeUnit(time, "time") : "s";
+            var output = units.String("output_time") is { } written ? KnownTimeUnit(written, "output_time") : given;
+            return (given, output);
+        }
+
+        private static string KnownTimeUnits => string.Join(", ", TimeUnits.Names.Select(n => $"\"{n}\""));
+
+        private static string KnownTimeUnit(TomlScalar scalar, string key)
+        {
+            var name = (string)scalar.Value;
+            if (TimeUnits.IsKnown(name))
+            {
+                return name;
+            }
+
+            var model = key == "time" ? $"; for a model unit without conversion write model_time = \"{name.Trim()}\" instead" : "";
+            throw new DeckException(scalar.ContentSpan, $"unknown time unit \"{name}\" in `units.{key}`.{Suggestions.Hint(name, TimeUnits.Names)} Known units: {KnownTimeUnits}{model}.");
         }
 
         private static (double KT, SourceSpan Span) ReadTemperature(DeckSection temperature, EnergyUnit unit)
@@ -479,8 +513,16 @@ public static partial class DeckReader
             var plotStates = run.Array("plot_states") is { } plots
                 ? plots.Items.Select(item => _states.Resolve(item, "run.plot_states")).ToArray()
                 : [];
-            return new RunSpec(tEnd, (int)outputs, spacing, tFirst, method, dt, safety, plotStates, run.Span) { Accuracy = accuracy, ListedTimes = listed };
+            // The deck's times are in its given unit; the run and its outputs are in the output unit.
+            return new RunSpec(OutputTime(tEnd), (int)outputs, spacing, tFirst is { } first ? OutputTime(first) : null, method, dt is { } step ? OutputTime(step) : null, safety, plotStates, run.Span)
+            {
+                Accuracy = accuracy,
+                ListedTimes = listed?.Select(OutputTime).ToArray(),
+            };
         }
+
+        /// <summary>A time of the deck (in its given unit) in the output unit.</summary>
+        private double OutputTime(double time) => _time.Given == _time.Output ? time : TimeUnits.ConvertTime(time, _time.Given, _time.Output);
 
         /// <summary>run.times: measurement times, strictly ascending in (0, t_end]; not with a grid's keys.</summary>
         private static double[]? ReadListedTimes(DeckSection run, double tEnd)

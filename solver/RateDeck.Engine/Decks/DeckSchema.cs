@@ -13,7 +13,7 @@ internal static class DeckSchema
     /// <summary>The tables and their keys; <see cref="OpenTables"/> take any key.</summary>
     public static readonly IReadOnlyDictionary<string, string[]> Tables = new Dictionary<string, string[]>(StringComparer.Ordinal)
     {
-        ["units"] = ["energy", "time"],
+        ["units"] = ["energy", "time", "model_time", "output_time"],
         ["temperature"] = ["kT", "kelvin"],
         ["parameters"] = [],
         ["states"] = ["coordinates", "labels", "spacing", "count", "from", "to", "label_prefix"],
@@ -34,6 +34,7 @@ internal static class DeckSchema
     /// <summary>Keys of a table that are alternative ways to give the same thing: at most one may appear.</summary>
     public static readonly IReadOnlyDictionary<string, string[]> Alternatives = new Dictionary<string, string[]>(StringComparer.Ordinal)
     {
+        ["units"] = ["time", "model_time"],
         ["temperature"] = ["kT", "kelvin"],
         ["energies"] = ["values", "expression"],
         ["weights"] = ["values", "expression", "isotropic_dimension", "from_mechanics"],

@@ -63,7 +63,7 @@ public static class MatrixChecks
         var (negativeCount, worstNegative) = NegativeOffDiagonals(rates);
         checks.Add(new("non-negative rates", negativeCount == 0, negativeCount == 0
             ? "every off-diagonal rate is >= 0"
-            : $"{Format.Count(negativeCount, "negative off-diagonal rate", "negative off-diagonal rates")}; the worst is {Format.Number(worstNegative!.Value)} from {worstNegative.From} to {worstNegative.To}"));
+            : $"{Format.Count(negativeCount, "negative off-diagonal rate", "negative off-diagonal rates")}; the worst is {Format.Rate(worstNegative!.Value, rates.TimeUnit)} from {worstNegative.From} to {worstNegative.To}"));
         var claim = ClaimedEquilibrium(rates);
         checks.Add(new("detailed balance", balance.Holds, BalanceDetail(balance, claim)));
 
@@ -80,10 +80,10 @@ public static class MatrixChecks
         }
         else
         {
-            checks.Add(NullSpaceOutcome(spectrum, classes, expectedNull));
+            checks.Add(NullSpaceOutcome(spectrum, classes, expectedNull, rates.TimeUnit));
             checks.Add(new("decaying modes", spectrum.NonDecayingCount == 0, spectrum.NonDecayingCount == 0
                 ? "every non-zero mode decays"
-                : $"{Format.Count(spectrum.NonDecayingCount, "non-zero eigenvalue has", "non-zero eigenvalues have")} real part >= -{Format.Number(spectrum.ZeroTolerance)}: those modes oscillate or grow"));
+                : $"{Format.Count(spectrum.NonDecayingCount, "non-zero eigenvalue has", "non-zero eigenvalues have")} real part >= -{Format.Rate(spectrum.ZeroTolerance, rates.TimeUnit)}: those modes oscillate or grow"));
             if (spectrum.SlowestRate is { } slowest)
             {
                 equilibriumTolerance = Math.Max(EquilibriumToleranceFloor, spectrum.ZeroTolerance / slowest);
@@ -219,9 +219,9 @@ public static class MatrixChecks
     /// its accuracy, that is said plainly and the check passes on the structural count (the slow
     /// modes then go to an accurate path, <see cref="Spectrum.Unresolved"/>).
     /// </summary>
-    private static CheckOutcome NullSpaceOutcome(Spectrum spectrum, StateClasses classes, int expectedNull)
+    private static CheckOutcome NullSpaceOutcome(Spectrum spectrum, StateClasses classes, int expectedNull, string timeUnit)
     {
-        var counts = $"{Format.Count(spectrum.NullDimension, "zero eigenvalue", "zero eigenvalues")} (|lambda| <= {Format.Number(spectrum.ZeroTolerance)}) for {Format.Count(expectedNull, "closed class", "closed classes")} without loss ({Format.Count(classes.Closed.Count, "closed class", "closed classes")}, {Format.Count(classes.Transient.Length, "transient state", "transient states")})";
+        var counts = $"{Format.Count(spectrum.NullDimension, "zero eigenvalue", "zero eigenvalues")} (|lambda| <= {Format.Rate(spectrum.ZeroTolerance, timeUnit)}) for {Format.Count(expectedNull, "closed class", "closed classes")} without loss ({Format.Count(classes.Closed.Count, "closed class", "closed classes")}, {Format.Count(classes.Transient.Length, "transient state", "transient states")})";
         if (spectrum.NullDimension > expectedNull && spectrum.Unresolved is { } unresolved)
         {
             return new("null space", true, $"{expectedNull} from the structure; {unresolved} (they are not null modes: an accurate path takes them)");

@@ -84,7 +84,7 @@ public sealed class Spectrum
         var slowest = decaying.Count == 0 ? (double?)null : decaying.Min(v => -v.Real);
         if (_nullDimension > StructuralNullDimension)
         {
-            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy (N eps rho = {Format.Number(AbsoluteAccuracy)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
+            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy (N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
         }
         else if (_nullDimension < StructuralNullDimension)
         {
@@ -92,7 +92,7 @@ public sealed class Spectrum
         }
         else if (slowest is { } rate && AbsoluteAccuracy / rate > (extended is null ? SlowModeTolerance : ExtendedSlowModeTolerance))
         {
-            Unresolved = $"the slowest rate {Format.Number(rate)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Number(AbsoluteAccuracy)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
+            Unresolved = $"the slowest rate {Format.Rate(rate, rates.TimeUnit)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
         }
 
         // A slowest rate read from a spectrum that lost modes to rounding would be a faster mode's: report none.

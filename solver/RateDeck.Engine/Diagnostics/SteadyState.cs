@@ -76,7 +76,8 @@ public static class SteadyState
 
         var classes = TransitionGraph.Classify(rates);
         var approach = spectrum.SlowestRate is { } slowest ? 1 / slowest : double.PositiveInfinity;
-        var approachText = spectrum.SlowestRate is not null ? Format.Number(approach)
+        var unit = rates.TimeUnit;
+        var approachText = spectrum.SlowestRate is not null ? Format.Time(approach, unit)
             : spectrum.IsResolved ? "none (no mode decays)"
             : "unknown (the slowest rate is not resolved; see the spectrum line)";
         SteadyStateResult Fail(string message, IReadOnlyList<ClassMass> masses, double[][] absorption) =>
@@ -101,7 +102,7 @@ public static class SteadyState
             {
                 var first = fed[0];
                 var feed = CarriedMass(rates.Pumping, first.Class, classes.Transient, absorption, first.Index);
-                return Fail($"no steady state: the pumping reaches the closed class {Format.Labels(first.Class.Labels)}, which has no loss, at {Format.Number(feed)} per unit time, so its population grows linearly{(fed.Count > 1 ? $" ({fed.Count} such classes)" : "")}", masses, absorption);
+                return Fail($"no steady state: the pumping reaches the closed class {Format.Labels(first.Class.Labels)}, which has no loss, at {Format.Rate(feed, unit)}, so its population grows linearly{(fed.Count > 1 ? $" ({fed.Count} such classes)" : "")}", masses, absorption);
             }
         }
 
@@ -134,12 +135,12 @@ public static class SteadyState
         {
             var conserved = lossFree.Count == 0 ? "" : $", plus the mass of P(0) kept by {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss";
             return new SteadyStateResult(SteadyStateKind.Driven, populations, residual, approach, masses, classes.TransientLabels, absorption, null,
-                $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Number(residual)}; approach time {approachText}");
+                $"driven steady state P = -K^-1 s on the leaking states{conserved}; residual |K P + s| = {Format.Rate(residual, unit)}; approach time {approachText}");
         }
 
         var lost = initial.Sum() - keptMass;
         return new SteadyStateResult(SteadyStateKind.Undriven, populations, residual, approach, masses, classes.TransientLabels, absorption, lost,
-            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Number(residual)}; approach time {approachText}");
+            $"P(0) settles in {Format.Count(lossFree.Count, "closed class", "closed classes")} without loss (mass {Format.Number(keptMass)}, {Format.Number(lost)} lost to sinks); residual |K P| = {Format.Rate(residual, unit)}; approach time {approachText}");
     }
 
     /// <summary>B[t][c] from K_TT^T B = -R.</summary>

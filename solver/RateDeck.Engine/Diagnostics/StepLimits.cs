@@ -119,7 +119,7 @@ public static class StepLimits
         (euler, positivity, thumb, rk4) = (Counted(euler), Counted(positivity), Counted(thumb), Counted(rk4));
 
         bool? Within(StepLimit limit) => dt is { } step ? step <= limit.MaxStep : null;
-        var recommendation = Recommend(spectrum, rates.Count, rk4, horizon, endTime is not null, stiffness, dt);
+        var recommendation = Recommend(spectrum, rates.Count, rates.TimeUnit, rk4, horizon, endTime is not null, stiffness, dt);
         var stepsAtDt = dt is { } given && horizon is { } end ? Math.Ceiling(end / given) : (double?)null;
         return new StiffnessReport(rho, slowest, stiffness, maxDiagonal, euler, positivity, thumb, rk4, horizon, endTime is not null,
             dt, Within(euler), Within(rk4), Within(positivity), recommendation, stepsAtDt, stepsAtDt is { } count ? count <= ExplicitStepBudget : null);
@@ -128,7 +128,7 @@ public static class StepLimits
     /// <summary>R(z) of classical RK4.</summary>
     internal static Complex Rk4Amplification(Complex z) => 1 + (z * (1 + (z * (0.5 + (z * ((1.0 / 6) + (z / 24)))))));
 
-    private static string Recommend(Spectrum spectrum, int n, StepLimit rk4, double? horizon, bool horizonIsEnd, double? stiffness, double? dt)
+    private static string Recommend(Spectrum spectrum, int n, string unit, StepLimit rk4, double? horizon, bool horizonIsEnd, double? stiffness, double? dt)
     {
         if (spectrum.SpectralRadius == 0)
         {
@@ -145,13 +145,13 @@ public static class StepLimits
         var steps = Math.Ceiling(t / step);
         var exactFlops = (spectrum.Path == SpectrumPath.Symmetrized ? SymmetricEigenFlopsPerN3 : GeneralEigenFlopsPerN3) * n;
         var explicitCheaper = steps * Rk4FlopsPerN2 < exactFlops;
-        var prefix = unsafeDt ? $"dt = {Format.Number(dt!.Value)} is unstable for RK4 (limit {Format.Number(rk4.MaxStep)}); " : "";
-        var target = horizonIsEnd ? $"t_end = {Format.Number(t)}" : $"t = 1/slowest rate = {Format.Number(t)}";
+        var prefix = unsafeDt ? $"dt = {Format.Time(dt!.Value, unit)} is unstable for RK4 (limit {Format.Time(rk4.MaxStep, unit)}); " : "";
+        var target = horizonIsEnd ? $"t_end = {Format.Time(t, unit)}" : $"t = 1/slowest rate = {Format.Time(t, unit)}";
         var verdict = steps > ExplicitStepBudget
             ? $"above the budget of {Format.Number(ExplicitStepBudget)} explicit steps, so use exact propagation (run takes it and declines the explicit method)"
             : explicitCheaper ? "cheaper than exact propagation" : "exact propagation is cheaper";
         var ratio = stiffness is { } r ? $"stiffness ratio {Format.Number(r)}" : spectrum.IsResolved ? "no decaying mode" : "slow modes not resolved in double precision";
-        return $"{prefix}explicit RK4 with dt <= {Format.Number(step)} needs {Format.Count(steps)} steps to {target}; {verdict} ({ratio})";
+        return $"{prefix}explicit RK4 with dt <= {Format.Time(step, unit)} needs {Format.Count(steps)} steps to {target}; {verdict} ({ratio})";
     }
 
     /// <summary>Largest r with |R(r d)| &lt;= 1 on [0, r] for the unit direction d: a scan in steps of 1e-3 up to |z| = 4 (the region lies inside), then bisection.</summary>

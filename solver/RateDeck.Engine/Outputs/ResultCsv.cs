@@ -160,11 +160,13 @@ public static class ResultCsv
     {
         ArgumentNullException.ThrowIfNull(states);
         ArgumentNullException.ThrowIfNull(population);
-        var perWeight = population.Select((n, i) => n / Math.Exp(states.LogWeights[i])).ToArray();
+        // The weights as given (3, not exp(ln 3) = 3.0000000000000004); from their logarithms only where no other form exists.
+        var weights = states.Weights ?? states.LogWeights.Select(Math.Exp).ToArray();
+        var perWeight = population.Select((n, i) => n / weights[i]).ToArray();
         WritePerStateTable(path, header, states.Labels,
         [
             new CsvColumn("energy", states.Energies, energyUnit),
-            new CsvColumn("weight", states.LogWeights.Select(Math.Exp).ToArray()),
+            new CsvColumn("weight", weights),
             new CsvColumn("population", population),
             new CsvColumn("population_per_weight", perWeight),
             new CsvColumn("ln_population_per_weight", population.Select((n, i) => n > 0 ? Math.Log(n) - states.LogWeights[i] : double.NegativeInfinity).ToArray()),

@@ -47,6 +47,7 @@ public static class AccurateStepChoice
         var stages = method == ExplicitMethod.Euler ? 1 : 4;
         var entries = rates.Sparse?.StoredCount ?? ((double)rates.Count * rates.Count);
         var horizon = times.Length > 0 ? times[^1] : 0;
+        var unit = rates.TimeUnit;
         var h = cap;
         var error = double.NaN;
         var tried = h;
@@ -56,7 +57,7 @@ public static class AccurateStepChoice
             var work = stages * entries * ((horizon / h * 3) + (times.Length * 3));
             if (work > WorkBudget)
             {
-                return new AccurateStep(tried, cap, error, false, $"a trial at dt = {Format.Number(h)} for the accuracy target {Format.Number(target)} would exceed the budget of {Format.Number(WorkBudget)} entry visits, so dt stays {Format.Number(tried)} "
+                return new AccurateStep(tried, cap, error, false, $"a trial at dt = {Format.Time(h, unit)} for the accuracy target {Format.Number(target)} would exceed the budget of {Format.Number(WorkBudget)} entry visits, so dt stays {Format.Time(tried, unit)} "
                     + (double.IsNaN(error) ? "without an estimate" : $"(estimated error {Format.Number(error)} of the total)") + "; rely on the exact result, or set run.accuracy larger");
             }
 
@@ -66,14 +67,14 @@ public static class AccurateStepChoice
             if (double.IsNaN(error))
             {
                 // The trial overflowed (numbers near the largest double): no step size can be estimated.
-                return new AccurateStep(tried, cap, error, false, $"the explicit trial at dt = {Format.Number(h)} overflows, so no error estimate is possible; rely on the exact result");
+                return new AccurateStep(tried, cap, error, false, $"the explicit trial at dt = {Format.Time(h, unit)} overflows, so no error estimate is possible; rely on the exact result");
             }
 
             if (error <= target)
             {
                 var how = round == 1 ? "the cap already meets it" : $"found in {round} rounds";
                 return new AccurateStep(h, cap, error, true,
-                    $"step doubling estimates the error at {Format.Number(error)} of the total, within the accuracy target {Format.Number(target)} ({how}; cap {Format.Number(cap)})");
+                    $"step doubling estimates the error at {Format.Number(error)} of the total, within the accuracy target {Format.Number(target)} ({how}; cap {Format.Time(cap, unit)})");
             }
 
             tried = h;

@@ -207,7 +207,7 @@ public static class ExactPropagatorChoice
         }
         else if (!rates.IsSparse && horizon is { } t && t * Precision.MachineEpsilon * spectrum.SpectralRadius > HorizonTolerance)
         {
-            why = $"the eigen paths are not trusted to t_end = {Text.Format.Number(t)}: their eigenvalues carry absolute errors of eps rho = {Text.Format.Number(Precision.MachineEpsilon * spectrum.SpectralRadius)} or more, and t_end eps rho = {Text.Format.Number(t * Precision.MachineEpsilon * spectrum.SpectralRadius)} > {Text.Format.Number(HorizonTolerance)}";
+            why = $"the eigen paths are not trusted to t_end = {Text.Format.Time(t, rates.TimeUnit)}: their eigenvalues carry absolute errors of eps rho = {Text.Format.Rate(Precision.MachineEpsilon * spectrum.SpectralRadius, rates.TimeUnit)} or more, and t_end eps rho = {Text.Format.Number(t * Precision.MachineEpsilon * spectrum.SpectralRadius)} > {Text.Format.Number(HorizonTolerance)}";
         }
         else
         {

@@ -37,7 +37,7 @@ public abstract class FixedStepPropagator : IPropagator
         WorkVectorCount = workVectorCount;
         Reason = string.Create(
             CultureInfo.InvariantCulture,
-            $"{description}, fixed step dt = {Text.Format.Number(dt)}; the last step before each output is shortened to land on it");
+            $"{description}, fixed step dt = {Text.Format.Time(dt, rates.TimeUnit)}; the last step before each output is shortened to land on it");
     }
 
     /// <inheritdoc />

@@ -86,7 +86,7 @@ public sealed class SymmetricEigenPropagator : IPropagator
         ZeroEigenvalueCount = _values.Count(l => l == 0);
         Reason = string.Create(
             CultureInfo.InvariantCulture,
-            $"symmetric eigen-decomposition of D^-1/2 K D^1/2 ({la.Name}); {ZeroEigenvalueCount} zero eigenvalue(s) within {Text.Format.Number(ZeroTolerance)}");
+            $"symmetric eigen-decomposition of D^-1/2 K D^1/2 ({la.Name}); {ZeroEigenvalueCount} zero eigenvalue(s) within {Text.Format.Rate(ZeroTolerance, rates.TimeUnit)}");
     }
 
     /// <inheritdoc />

@@ -47,8 +47,8 @@ internal abstract class GeneratorBuilder
     /// <summary>Compensated sum of the off-diagonal entries of <paramref name="column"/>, plus <paramref name="loss"/>.</summary>
     public abstract double OutflowOf(int column, double loss);
 
-    /// <summary>The finished rate matrix.</summary>
-    public abstract RateMatrix Build(StateSpace states, double[] loss, double[] pumping, BalanceOrigin origin, string storageReason);
+    /// <summary>The finished rate matrix, its rates per <paramref name="timeUnit"/>.</summary>
+    public abstract RateMatrix Build(StateSpace states, double[] loss, double[] pumping, BalanceOrigin origin, string storageReason, string timeUnit);
 
     private sealed class Dense(int n) : GeneratorBuilder
     {
@@ -73,8 +73,8 @@ internal abstract class GeneratorBuilder
             return sum.Value;
         }
 
-        public override RateMatrix Build(StateSpace states, double[] loss, double[] pumping, BalanceOrigin origin, string storageReason) =>
-            new(states, _matrix, loss, pumping, origin);
+        public override RateMatrix Build(StateSpace states, double[] loss, double[] pumping, BalanceOrigin origin, string storageReason, string timeUnit) =>
+            new(states, _matrix, loss, pumping, origin) { TimeUnit = timeUnit };
     }
 
     /// <summary>Column j keeps rows j - b .. j + b at [j (2b + 1) + (i - j + b)].</summary>
@@ -109,7 +109,7 @@ internal abstract class GeneratorBuilder
             return sum.Value;
         }
 
-        public override RateMatrix Build(StateSpace states, double[] loss, double[] pumping, BalanceOrigin origin, string storageReason)
+        public override RateMatrix Build(StateSpace states, double[] loss, double[] pumping, BalanceOrigin origin, string storageReason, string timeUnit)
         {
             var starts = new int[n + 1];
             var rows = new List<int>(_band.Length);
@@ -130,7 +130,7 @@ internal abstract class GeneratorBuilder
             }
 
             var sparse = new SparseGenerator(n, starts, [.. rows], [.. values]);
-            return new RateMatrix(states, sparse, loss, pumping, origin, storageReason);
+            return new RateMatrix(states, sparse, loss, pumping, origin, storageReason) { TimeUnit = timeUnit };
         }
     }
 }

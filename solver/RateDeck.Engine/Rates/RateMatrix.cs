@@ -80,6 +80,12 @@ public sealed class RateMatrix
     /// <summary>How the off-diagonal rates were obtained.</summary>
     public BalanceOrigin Origin { get; }
 
+    /// <summary>
+    /// The unit of time the rates are per (the deck's output time unit), for messages that print a
+    /// time or a rate; empty for a matrix built in code without a deck.
+    /// </summary>
+    public string TimeUnit { get; init; } = "";
+
     /// <summary>Number of states.</summary>
     public int Count => States.Count;
 

@@ -44,24 +44,38 @@ public static class RateMatrixAssembler
         var (generator, storage) = GeneratorBuilder.For(deck.Coupling, n);
         var origin = deck.Coupling switch
         {
-            MeasuredOneWay oneWay => PlaceOneWay(oneWay, states, generator),
-            MeasuredFull full => PlaceFull(full, states, generator),
+            MeasuredOneWay oneWay => PlaceOneWay(oneWay, states, generator, deck.RateConversion),
+            MeasuredFull full => PlaceFull(full, states, generator, deck.RateConversion),
             KernelModel kernel => PlaceKernel(kernel, deck, states, generator),
             _ => throw new NotSupportedException($"unknown coupling {deck.Coupling.GetType().Name}"),
         };
 
         var loss = deck.Losses is null
             ? new double[n]
-            : PerStateEvaluator.Evaluate(deck, deck.Losses, "loss rate", PerStateRequirement.NonNegative);
+            : Converted(PerStateEvaluator.Evaluate(deck, deck.Losses, "loss rate", PerStateRequirement.NonNegative), deck.RateConversion);
         var pumping = deck.Pumping is null
             ? new double[n]
-            : PerStateEvaluator.Evaluate(deck, deck.Pumping, "pumping rate", PerStateRequirement.NonNegative);
+            : Converted(PerStateEvaluator.Evaluate(deck, deck.Pumping, "pumping rate", PerStateRequirement.NonNegative), deck.RateConversion);
 
         FillDiagonal(generator, loss, states, deck.Coupling.Span);
-        return generator.Build(states, loss, pumping, origin, storage);
+        return generator.Build(states, loss, pumping, origin, storage, deck.TimeUnit);
     }
 
-    private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, GeneratorBuilder generator)
+    /// <summary>Rates per the deck's given time unit as rates per its output unit (in place).</summary>
+    private static double[] Converted(double[] rates, RateConversion conversion)
+    {
+        if (conversion.Changes)
+        {
+            for (var k = 0; k < rates.Length; k++)
+            {
+                rates[k] = conversion.Apply(rates[k]);
+            }
+        }
+
+        return rates;
+    }
+
+    private static BalanceOrigin PlaceOneWay(MeasuredOneWay oneWay, StateSpace states, GeneratorBuilder generator, RateConversion conversion)
     {
         var seen = new PairSet(states.Count);
         foreach (var entry in oneWay.Entries)
@@ -76,7 +90,7 @@ public static class RateMatrixAssembler
                     $"this rate goes from {pair.Describe()}, against the declared direction ({Describe(oneWay.Direction)}); give it the other way round, or give the full matrix");
             }
 
-            if (!TryPlaceAndComplete(generator, pair.From, pair.To, entry.Rate, pair.LogRatio))
+            if (!TryPlaceAndComplete(generator, pair.From, pair.To, conversion.Apply(entry.Rate), pair.LogRatio))
             {
                 throw new DeckException(entry.Span, OverflowMessage("this rate", pair, entry.Rate));
             }
@@ -85,13 +99,13 @@ public static class RateMatrixAssembler
         return BalanceOrigin.CompletedByDetailedBalance;
     }
 
-    private static BalanceOrigin PlaceFull(MeasuredFull full, StateSpace states, GeneratorBuilder generator)
+    private static BalanceOrigin PlaceFull(MeasuredFull full, StateSpace states, GeneratorBuilder generator, RateConversion conversion)
     {
         var seen = new PairSet(states.Count);
         foreach (var entry in full.Entries)
         {
             CheckEntry(entry, states, seen);
-            generator.Set(entry.To, entry.From, entry.Rate);
+            generator.Set(entry.To, entry.From, conversion.Apply(entry.Rate));
         }
 
         return BalanceOrigin.TakenAsGiven;
@@ -122,6 +136,7 @@ public static class RateMatrixAssembler
         var coordinates = states.Coordinates;
         var logPi = states.LogEquilibrium;
         var towardSmaller = kernel.Direction == TransferDirection.TowardSmaller;
+        var conversion = deck.RateConversion;
         for (var source = 0; source < n; source++)
         {
             var x = coordinates[source];
@@ -148,7 +163,7 @@ public static class RateMatrixAssembler
                         string.Create(CultureInfo.InvariantCulture, $"the kernel is {rate} from {new Pair(source, target, states).Describe()}; a rate must be finite and zero or more"));
                 }
 
-                if (!TryPlaceAndComplete(generator, source, target, rate, logPi[source] - logPi[target]))
+                if (!TryPlaceAndComplete(generator, source, target, conversion.Apply(rate), logPi[source] - logPi[target]))
                 {
                     var pair = new Pair(source, target, states);
                     throw new DeckException(kernel.Span, OverflowMessage($"the kernel's rate from {pair.Describe()}", pair, rate));

@@ -36,6 +36,14 @@ public sealed class StateSpace
     /// <summary>ln g_i.</summary>
     public double[] LogWeights { get; }
 
+    /// <summary>
+    /// g_i as the deck gave them (values or expression) or the mechanics stage derived them, for
+    /// outputs that write the weights: exp(ln g) would print 3.0000000000000004 for a given 3. Null
+    /// where the weights exist only as logarithms (the isotropic measure, or a state space built in
+    /// code); the numerics use <see cref="LogWeights"/> alone.
+    /// </summary>
+    public double[]? Weights { get; init; }
+
     /// <summary>kT in the deck's energy unit.</summary>
     public double KT { get; }
 

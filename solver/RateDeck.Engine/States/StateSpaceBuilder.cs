@@ -46,11 +46,16 @@ public static class StateSpaceBuilder
 
         var energies = PerStateEvaluator.Evaluate(deck, deck.Energies, "energy", PerStateRequirement.Finite);
         var derived = deck.Mechanics is { } spec && mechanics is not null ? DeriveMechanics(deck, spec, energies, mechanics, memoise) : null;
+        var weights = deck.Weights switch
+        {
+            GivenWeights given => PerStateEvaluator.Evaluate(deck, given.Source, "weight", PerStateRequirement.Positive),
+            MechanicsWeights fromMechanics => DerivedWeights(deck, fromMechanics, derived?.Weights),
+            _ => null,
+        };
         var logWeights = deck.Weights switch
         {
-            GivenWeights given => PerStateEvaluator.Evaluate(deck, given.Source, "weight", PerStateRequirement.Positive).Select(w => Math.Log(w)).ToArray(),
             IsotropicWeights isotropic => IsotropicLogWeights(deck.Grid, isotropic),
-            MechanicsWeights fromMechanics => MechanicsLogWeights(deck, fromMechanics, derived?.Weights),
+            GivenWeights or MechanicsWeights => weights!.Select(w => Math.Log(w)).ToArray(),
             _ => throw new NotSupportedException($"unknown weight specification {deck.Weights.GetType().Name}"),
         };
 
@@ -63,6 +68,7 @@ public static class StateSpaceBuilder
             deck.KT,
             logEquilibrium)
         {
+            Weights = weights,
             Mechanics = derived,
             EquilibriumGiven = deck.EquilibriumGiven,
         };
@@ -113,8 +119,8 @@ public static class StateSpaceBuilder
         return logWeights;
     }
 
-    /// <summary>ln g_i from the weights the mechanics stage derived, or a refusal saying what is missing.</summary>
-    private static double[] MechanicsLogWeights(Deck deck, MechanicsWeights request, double[]? derived)
+    /// <summary>g_i as the mechanics stage derived them, or a refusal saying what is missing.</summary>
+    private static double[] DerivedWeights(Deck deck, MechanicsWeights request, double[]? derived)
     {
         if (deck.Mechanics is null)
         {
@@ -126,7 +132,7 @@ public static class StateSpaceBuilder
             throw new DeckException(request.Span, "weights from mechanics need the mechanics stage, which this build does not have; give the weights per state or by dimension");
         }
 
-        return derived.Select(w => Math.Log(w)).ToArray();
+        return derived;
     }
 
     /// <summary>

@@ -28,6 +28,18 @@ public static class Format
         return (Math.Round(value / unit) * unit).ToString("0.###", CultureInfo.InvariantCulture);
     }
 
+    /// <summary>
+    /// A time with its unit, "9.15e-3 t0"; the number alone when <paramref name="unit"/> is empty
+    /// (a rate matrix built in code, with no deck to name the unit).
+    /// </summary>
+    public static string Time(double value, string unit) => string.IsNullOrEmpty(unit) ? Number(value) : $"{Number(value)} {unit}";
+
+    /// <summary>A rate (per unit of time) with its unit, "0.128 /t0"; "0.128 per unit time" when <paramref name="unit"/> is empty.</summary>
+    public static string Rate(double value, string unit) => string.IsNullOrEmpty(unit) ? $"{Number(value)} per unit time" : $"{Number(value)} /{unit}";
+
+    /// <summary>The unit of a rate for a table heading or a JSON field, "1/t0"; empty when <paramref name="timeUnit"/> is.</summary>
+    public static string RateUnit(string timeUnit) => string.IsNullOrEmpty(timeUnit) ? "" : $"1/{timeUnit}";
+
     /// <summary>A whole count: exact below a million, else in exponent form (4.7e6).</summary>
     public static string Count(double count) =>
         count < 1e6 ? count.ToString("0", CultureInfo.InvariantCulture) : count.ToString("0.##e0", CultureInfo.InvariantCulture);

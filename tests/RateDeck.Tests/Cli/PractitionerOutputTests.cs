@@ -80,13 +80,9 @@ public sealed class PractitionerOutputTests
     [Fact]
     public void Run_FinalBoltzmannTable_AtEquilibriumFallsOnTheLineOfSlopeMinusOneOverKT()
     {
-        using var folder = new TempFolder();
-        var (code, _, error) = CliRunner.Run("run", ListedTimesDeck(folder), "--no-plots", "--out", folder.File("out"));
-        Assert.True(code == ExitCodes.Success, error);
-
         // At t_end = 1e-4 s (about 30 relaxation times) the populations are Boltzmann's:
         // ln(n_i / g_i) = -E_i / kT + const, so each pair of levels gives the slope -1/kT.
-        var rows = ResultRows(folder.File("out/boltzmann-final.csv"));
+        var rows = FinalBoltzmannRows();
         var energy = rows.Select(r => double.Parse(r[1], CultureInfo.InvariantCulture)).ToArray();
         var lnPerWeight = rows.Select(r => double.Parse(r[5], CultureInfo.InvariantCulture)).ToArray();
         for (var i = 1; i < rows.Length; i++)
@@ -95,6 +91,27 @@ public sealed class PractitionerOutputTests
             Assert.Equal(-1 / _kTAt600K, slope, 1e-9 / _kTAt600K);
         }
     }
+
+    [Fact]
+    public void Run_FinalBoltzmannTable_WritesTheWeightsAsTheDeckGivesThem()
+    {
+        // The deck says weights = [1, 3, 5]; the file says so too, character for character (not
+        // exp(ln 3) = 3.0000000000000004), and n_i / g_i is the population divided by that g.
+        var rows = FinalBoltzmannRows();
+        Assert.Equal(["1", "3", "5"], rows.Select(r => r[2]));
+        Assert.All(rows, row => Assert.Equal(Number(row[3]) / Number(row[2]), Number(row[4])));
+    }
+
+    /// <summary>The rows of boltzmann-final.csv after a run of <see cref="ListedTimesDeck"/>.</summary>
+    private static string[][] FinalBoltzmannRows()
+    {
+        using var folder = new TempFolder();
+        var (code, _, error) = CliRunner.Run("run", ListedTimesDeck(folder), "--no-plots", "--out", folder.File("out"));
+        Assert.True(code == ExitCodes.Success, error);
+        return ResultRows(folder.File("out/boltzmann-final.csv"));
+    }
+
+    private static double Number(string cell) => double.Parse(cell, CultureInfo.InvariantCulture);
 
     private static string[][] ResultRows(string path) =>
         [.. File.ReadAllLines(path).Where(l => !l.StartsWith('#')).Skip(1).Select(l => l.Split(','))];
