@@ -19,19 +19,8 @@ public sealed partial class CliDocumentationTests
 
     private static readonly Lazy<string[]> _page = new(() => File.ReadAllLines(Path.Combine(CliRunner.RepositoryRoot(), "docs", "cli.md")));
 
-    public static TheoryData<string> Verbs()
-    {
-        var data = new TheoryData<string>();
-        foreach (var verb in Commands.Declaration().Subcommands)
-        {
-            data.Add(verb.Name);
-        }
-
-        return data;
-    }
-
     [Theory]
-    [MemberData(nameof(Verbs))]
+    [MemberData(nameof(CliRunner.Verbs), MemberType = typeof(CliRunner))]
     public void EveryOptionAVerbDeclares_IsDocumentedUnderThatVerb(string verb)
     {
         var declared = Declared(verb);
@@ -41,7 +30,7 @@ public sealed partial class CliDocumentationTests
     }
 
     [Theory]
-    [MemberData(nameof(Verbs))]
+    [MemberData(nameof(CliRunner.Verbs), MemberType = typeof(CliRunner))]
     public void EveryOptionDocumentedUnderAVerb_IsDeclaredByIt(string verb)
     {
         Assert.Empty(DocumentedOptions(Section($"## `ratedeck {verb}`")).Except(Declared(verb)));

@@ -1,4 +1,5 @@
 using RateDeck.Cli;
+using Xunit;
 
 namespace RateDeck.Tests.Cli;
 
@@ -29,4 +30,7 @@ internal static class CliRunner
 
         throw new InvalidOperationException($"no RateDeck.sln above {AppContext.BaseDirectory}");
     }
+
+    /// <summary>The verbs as the parser declares them, for theories over every verb.</summary>
+    public static TheoryData<string> Verbs() => [.. Commands.Declaration().Subcommands.Select(c => c.Name)];
 }

@@ -10,12 +10,8 @@ namespace RateDeck.Tests.Cli;
 /// code and files; when stdout is not a terminal no progress bar is drawn, even on a terminal's
 /// stderr, and stdout carries no control characters.
 /// </summary>
-public sealed class PlainOutputTests : IDisposable
+public sealed class PlainOutputTests
 {
-    private readonly TempFolder _folder = new();
-
-    public void Dispose() => _folder.Dispose();
-
     [Theory]
     [InlineData("check", "cascade.toml", "ok, 7 checks passed, 48 states")]
     [InlineData("steady", "cascade.toml", "driven steady state")]
@@ -23,10 +19,11 @@ public sealed class PlainOutputTests : IDisposable
     [InlineData("stiffness", "two-level.toml", "spectral radius")]
     public void Quiet_PrintsOneLineNamingTheVerbAndDeck_WithTheSameExitCodeAndFiles(string verb, string deckName, string saying)
     {
+        using var folder = new TempFolder();
         var deck = CliRunner.DemoDeck(deckName);
         // stiffness writes no files and has no --out.
-        string[] output = verb == "stiffness" ? [] : ["--out", _folder.File("quiet")];
-        string[] fullOutput = verb == "stiffness" ? [] : ["--out", _folder.File("full")];
+        string[] output = verb == "stiffness" ? [] : ["--out", folder.File("quiet")];
+        string[] fullOutput = verb == "stiffness" ? [] : ["--out", folder.File("full")];
 
         var quiet = CliRunner.Run([verb, deck, "--quiet", .. output]);
         var full = CliRunner.Run([verb, deck, .. fullOutput]);
@@ -35,7 +32,7 @@ public sealed class PlainOutputTests : IDisposable
         Assert.Equal(1, quiet.Out.Count(c => c == '\n'));
         Assert.StartsWith($"{verb} {deck}: ", quiet.Out, StringComparison.Ordinal);
         Assert.Contains(saying, quiet.Out, StringComparison.Ordinal);
-        Assert.Equal(Files(_folder.File("full")), Files(_folder.File("quiet")));
+        Assert.Equal(Files(folder.File("full")), Files(folder.File("quiet")));
     }
 
     private static IEnumerable<string?> Files(string folder) =>
@@ -56,9 +53,10 @@ public sealed class PlainOutputTests : IDisposable
     {
         // `script` gives the program a terminal; the first run keeps stdout on it (the bar is drawn:
         // the control that the check below can see one), the second sends stdout to a file.
-        var summary = _folder.File("summary.txt");
-        var onTerminal = await OnATerminalAsync(Program());
-        var piped = await OnATerminalAsync($"{Program()} > '{summary}'");
+        using var folder = new TempFolder();
+        var summary = folder.File("summary.txt");
+        var onTerminal = await OnATerminalAsync(Program(folder));
+        var piped = await OnATerminalAsync($"{Program(folder)} > '{summary}'");
 
         Assert.Contains("100.0%", onTerminal, StringComparison.Ordinal);
         Assert.DoesNotContain("%", piped, StringComparison.Ordinal);
@@ -67,8 +65,8 @@ public sealed class PlainOutputTests : IDisposable
         Assert.DoesNotContain(text, c => char.IsControl(c) && c != '\n');
     }
 
-    private string Program() =>
-        $"dotnet '{Path.Combine(AppContext.BaseDirectory, "ratedeck.dll")}' run '{CliRunner.DemoDeck("cascade.toml")}' --no-plots --out '{_folder.File("out")}'";
+    private static string Program(TempFolder folder) =>
+        $"dotnet '{Path.Combine(AppContext.BaseDirectory, "ratedeck.dll")}' run '{CliRunner.DemoDeck("cascade.toml")}' --no-plots --out '{folder.File("out")}'";
 
     private static async Task<string> OnATerminalAsync(string command)
     {
