@@ -72,7 +72,7 @@ public static class Fitter
         var targets = free.Select(p => p.Target).ToList();
         var starts = free.Select(p => p.Start).ToArray();
         var dataSets = spec.DataSets.Select(d => DataSetModel.Create(d, deckPath, overrides, spec.Observables, targets, starts, algebra)).ToList();
-        var problem = new FitProblem(free, dataSets);
+        var problem = new FitProblem(free, dataSets, spec.Derivatives);
         if (problem.ResidualCount <= free.Count)
         {
             throw new DeckException(spec.DataSets[0].Span, $"the data hold {problem.ResidualCount} values for {free.Count} free parameters; a fit needs more values than parameters");
@@ -229,6 +229,8 @@ public static class Fitter
             Starts = (startsAsked, converged.Count),
             ScaledSingularValues = covariance.SingularValues,
             Warnings = warnings,
+            Derivatives = parameters.Select((parameter, j) => (parameter.Name, problem.DifferencedBecause?[j] is { } why ? $"central differences ({why})" : "analytic")).ToDictionary(x => x.Name, x => x.Item2),
+            TrajectoryEvaluations = problem.TrajectoryEvaluations,
         };
     }
 

@@ -5,6 +5,7 @@ using RateDeck.LinearAlgebra;
 using RateDeck.Mechanics;
 using RateDeck.Pipeline;
 using RateDeck.Propagation;
+using RateDeck.Sensitivities;
 using RateDeck.States;
 
 namespace RateDeck.Fitting.Model;
@@ -28,6 +29,8 @@ public sealed class DataSetModel
     private readonly Observable[] _observables;
     private readonly int[][] _timeIndex;
     private RunOptions _options = new() { ExactOnly = true };
+    private double[]? _lastValues;
+    private DeckRun? _lastRun;
 
     private DataSetModel(DataSetSpec spec, Deck deck, DataTable data, Observable[] observables, double[] times, int[][] timeIndex, ILinearAlgebra algebra)
     {
@@ -106,12 +109,111 @@ public sealed class DataSetModel
     }
 
     /// <summary>
-    /// The model's value for every observed value, series after series in file order.
+    /// The model's value for every observed value, series after series in file order, at the free
+    /// values <paramref name="values"/>; the trial is kept for <see cref="Sensitivities"/> at the same values.
     /// </summary>
     /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
-    public double[] Predict(Deck deck)
+    public double[] Predict(IReadOnlyList<ParameterTarget> targets, IReadOnlyList<double> values)
     {
-        var trajectory = Propagate(deck, Times);
+        var run = Evaluate(Apply(targets, values), Times);
+        (_lastValues, _lastRun) = ([.. values], run);
+        return Observe(run.Exact, run.Loaded.Deck);
+    }
+
+    /// <summary>
+    /// Analytic d(prediction)/d(value) for each of <paramref name="columns"/> (indices into
+    /// <paramref name="targets"/>), rows as <see cref="Predict"/>, on the symmetric eigen path
+    /// (<see cref="TrajectorySensitivity"/>, <see cref="GeneratorDerivatives"/>); a column is null
+    /// where they do not apply, with the reason in <paramref name="reasons"/>. Reuses the trial
+    /// <see cref="Predict"/> kept at the same values (no new trajectory), else evaluates one.
+    /// </summary>
+    /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
+    public double[]?[] Sensitivities(IReadOnlyList<ParameterTarget> targets, IReadOnlyList<double> values, IReadOnlyList<int> columns, string?[] reasons)
+    {
+        var result = new double[]?[columns.Count];
+        if (PropagatorPath != "symmetric-eigen")
+        {
+            foreach (var j in columns)
+            {
+                reasons[j] = $"the exact path is {PropagatorPath}, not the symmetric eigen path";
+            }
+
+            return result;
+        }
+
+        var run = _lastRun is { } last && _lastValues!.SequenceEqual(values) ? last : Evaluate(Apply(targets, values), Times);
+        var trajectory = run.Exact;
+        var deck = run.Loaded.Deck;
+        var changes = new List<(int Slot, string? Input, GeneratorDerivative Change)>();
+        for (var slot = 0; slot < columns.Count; slot++)
+        {
+            var input = targets[columns[slot]].Input;
+            try
+            {
+                var change = GeneratorDerivatives.Of(run.Loaded, input);
+                if (input.ExpressionName is { } name)
+                {
+                    // Compiles (and checks) the observables' own derivatives before the propagation work.
+                    _ = _observables.Sum(o => o.InputDerivative(trajectory.Populations[0], deck, name));
+                }
+
+                changes.Add((slot, input.ExpressionName, change));
+            }
+            catch (NotSupportedException e)
+            {
+                reasons[columns[slot]] = e.Message;
+            }
+        }
+
+        double[][][] populations;
+        try
+        {
+            populations = TrajectorySensitivity.Compute((SymmetricEigenPropagator)run.ExactPropagator, run.Loaded.Rates, run.Initial, Times, [.. changes.Select(c => c.Change)], _algebra);
+            foreach (var observable in _observables)
+            {
+                observable.PopulationGradient(trajectory.Populations[0], deck);
+            }
+        }
+        catch (NotSupportedException e)
+        {
+            foreach (var (slot, _, _) in changes)
+            {
+                reasons[columns[slot]] = e.Message;
+            }
+
+            return result;
+        }
+
+        for (var c = 0; c < changes.Count; c++)
+        {
+            var (slot, name, _) = changes[c];
+            var rows = new double[Data.Count];
+            var k = 0;
+            for (var s = 0; s < _observables.Length; s++)
+            {
+                var observable = _observables[s];
+                foreach (var index in _timeIndex[s])
+                {
+                    var at = trajectory.Populations[index];
+                    var gradient = observable.PopulationGradient(at, deck);
+                    var value = name is null ? 0 : observable.InputDerivative(at, deck, name);
+                    for (var q = 0; q < gradient.Length; q++)
+                    {
+                        value += gradient[q] * populations[c][index][observable.States[q]];
+                    }
+
+                    rows[k++] = value;
+                }
+            }
+
+            result[slot] = rows;
+        }
+
+        return result;
+    }
+
+    private double[] Observe(Trajectory trajectory, Deck deck)
+    {
         var result = new double[Data.Count];
         var k = 0;
         for (var s = 0; s < _observables.Length; s++)
@@ -135,12 +237,18 @@ public sealed class DataSetModel
 
     /// <summary>The populations at <paramref name="times"/> on the kept path.</summary>
     /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
-    public Trajectory Propagate(Deck deck, double[] times)
+    public Trajectory Propagate(Deck deck, double[] times) => Evaluate(deck, times).Exact;
+
+    /// <summary>A run of <paramref name="deck"/> on the kept path whose exact trajectory is computed.</summary>
+    /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
+    private DeckRun Evaluate(Deck deck, double[] times)
     {
         TrajectoryEvaluations++;
         try
         {
-            return new DeckRun(DeckPipeline.Assemble(deck, _algebra), _options with { Times = times }).Exact;
+            var run = new DeckRun(DeckPipeline.Assemble(deck, _algebra), _options with { Times = times });
+            _ = run.Exact;
+            return run;
         }
         catch (Exception e) when (e is DeckException or ArgumentException or InvalidOperationException or MechanicsException or ArithmeticException)
         {

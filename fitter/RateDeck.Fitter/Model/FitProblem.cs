@@ -1,12 +1,15 @@
 using RateDeck.Decks;
 using RateDeck.Fitting.Optimization;
+using RateDeck.Fitting.Setup;
 
 namespace RateDeck.Fitting.Model;
 
 /// <summary>
 /// The least-squares problem of a fit: the free parameters shared by every data set, the
 /// residuals (model - observed) / sd of all data sets one after another (sd = 1 without standard
-/// deviations), and the Jacobian by central differences in the optimizer's variables.
+/// deviations), and the Jacobian: analytic sensitivities for each parameter where they apply
+/// (<see cref="DataSetModel.Sensitivities"/>, decided at the first Jacobian and kept), central
+/// differences in the optimizer's variables for the others.
 /// </summary>
 public sealed class FitProblem : ILeastSquaresProblem
 {
@@ -19,12 +22,14 @@ public sealed class FitProblem : ILeastSquaresProblem
 
     private readonly double[] _observed;
     private readonly double[] _weights;
+    private string?[]? _differenced;
 
     /// <summary>Builds the problem over <paramref name="dataSets"/>.</summary>
     /// <exception cref="DeckException">Some columns give standard deviations and others do not.</exception>
-    public FitProblem(IReadOnlyList<FreeParameter> parameters, IReadOnlyList<DataSetModel> dataSets)
+    public FitProblem(IReadOnlyList<FreeParameter> parameters, IReadOnlyList<DataSetModel> dataSets, DerivativeMode derivatives = DerivativeMode.Auto)
     {
         Parameters = parameters;
+        Derivatives = derivatives;
         DataSets = dataSets;
         var series = dataSets.SelectMany(d => d.Data.Series.Select(s => (d, s))).ToList();
         var weighted = series.Count(x => x.s.StandardDeviations is not null);
@@ -43,6 +48,15 @@ public sealed class FitProblem : ILeastSquaresProblem
 
     /// <summary>The free parameters.</summary>
     public IReadOnlyList<FreeParameter> Parameters { get; }
+
+    /// <summary>How the Jacobian is formed.</summary>
+    public DerivativeMode Derivatives { get; }
+
+    /// <summary>
+    /// Per parameter, null when its Jacobian column is analytic, else why it is formed by central
+    /// differences; null before the first Jacobian.
+    /// </summary>
+    public IReadOnlyList<string?>? DifferencedBecause => _differenced;
 
     /// <summary>The data sets.</summary>
     public IReadOnlyList<DataSetModel> DataSets { get; }
@@ -89,7 +103,7 @@ public sealed class FitProblem : ILeastSquaresProblem
     public double[] Predict(IReadOnlyList<double> values)
     {
         var targets = Parameters.Select(p => p.Target).ToList();
-        return [.. DataSets.SelectMany(d => d.Predict(d.Apply(targets, values)))];
+        return [.. DataSets.SelectMany(d => d.Predict(targets, values))];
     }
 
     /// <inheritdoc />
@@ -124,7 +138,7 @@ public sealed class FitProblem : ILeastSquaresProblem
         var m = ResidualCount;
         var plus = new double[m];
         var minus = new double[m];
-        for (var j = 0; j < ParameterCount; j++)
+        foreach (var j in AnalyticColumns(u, jacobian))
         {
             var h = DifferenceStep * (u[j] != 0 ? Math.Abs(u[j]) : 1);
             var up = (double[])u.Clone();
@@ -148,5 +162,63 @@ public sealed class FitProblem : ILeastSquaresProblem
         }
 
         return true;
+    }
+
+    /// <summary>
+    /// Fills the analytic columns of <paramref name="jacobian"/> at <paramref name="u"/> and returns
+    /// the columns left to differences. At the first call every column is tried and those that
+    /// cannot be analytic in some data set are kept to differences for the whole fit.
+    /// </summary>
+    private List<int> AnalyticColumns(double[] u, double[,] jacobian)
+    {
+        var all = Enumerable.Range(0, ParameterCount).ToList();
+        if (Derivatives == DerivativeMode.Differences)
+        {
+            _differenced ??= [.. all.Select(_ => "central differences asked for (fit.derivatives)")];
+            return all;
+        }
+
+        var first = _differenced is null;
+        var reasons = _differenced is null ? new string?[ParameterCount] : (string?[])_differenced.Clone();
+        var columns = all.Where(j => reasons[j] is null).ToList();
+        var values = Values(u);
+        var targets = Parameters.Select(p => p.Target).ToList();
+        var blocks = new List<double[]?[]>();
+        try
+        {
+            blocks.AddRange(DataSets.Select(d => d.Sensitivities(targets, values, columns, reasons)));
+        }
+        catch (InfeasibleTrialException e)
+        {
+            // Not expected at a point whose residuals were evaluated; this Jacobian falls back to differences.
+            reasons = [.. all.Select(_ => "the analytic sensitivities could not be evaluated: " + e.Message)];
+        }
+
+        if (first)
+        {
+            _differenced = reasons;
+        }
+
+        for (var slot = 0; slot < columns.Count; slot++)
+        {
+            var j = columns[slot];
+            if (reasons[j] is not null)
+            {
+                continue;
+            }
+
+            var scale = Parameters[j].Derivative(values[j]);
+            var row = 0;
+            foreach (var block in blocks)
+            {
+                foreach (var value in block[slot]!)
+                {
+                    jacobian[row, j] = value * scale * _weights[row];
+                    row++;
+                }
+            }
+        }
+
+        return [.. all.Where(j => reasons[j] is not null)];
     }
 }

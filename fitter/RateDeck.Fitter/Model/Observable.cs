@@ -17,13 +17,16 @@ public sealed partial class Observable
     private readonly int[] _states;
     private readonly string[] _parameters;
     private readonly double[] _buffer;
+    private readonly SourceSpan _span;
+    private readonly Dictionary<string, CompiledExpression> _derivatives = new(StringComparer.Ordinal);
 
-    private Observable(string name, CompiledExpression? expression, int[] states, string[] parameters)
+    private Observable(string name, CompiledExpression? expression, int[] states, string[] parameters, SourceSpan span)
     {
         Name = name;
         _expression = expression;
         _states = states;
         _parameters = parameters;
+        _span = span;
         _buffer = new double[states.Length + 1 + parameters.Length];
     }
 
@@ -31,7 +34,10 @@ public sealed partial class Observable
     public string Name { get; }
 
     /// <summary>The population of one state.</summary>
-    public static Observable Population(string label, int state) => new(label, null, [state], []);
+    public static Observable Population(string label, int state) => new(label, null, [state], [], SourceSpan.None(label));
+
+    /// <summary>The states whose populations the observable reads, in slot order.</summary>
+    public IReadOnlyList<int> States => _states;
 
     /// <summary>
     /// Compiles an observable of <paramref name="deck"/>. P(label) is replaced by a variable name padded
@@ -62,17 +68,43 @@ public sealed partial class Observable
         var parameters = deck.Parameters.Keys.Order(StringComparer.Ordinal).ToArray();
         var variables = states.Select((_, k) => SlotName(k)).Append("kT").Concat(parameters).ToArray();
         var compiled = ExpressionCompiler.Compile(text, spec.Span, variables);
-        return new Observable(spec.Name, compiled, [.. states], parameters);
+        return new Observable(spec.Name, compiled, [.. states], parameters, spec.Span);
     }
 
     /// <summary>The observable at one time from the populations there.</summary>
-    public double Evaluate(double[] populations, Deck deck)
+    public double Evaluate(double[] populations, Deck deck) => _expression is null ? populations[_states[0]] : _expression.Evaluate(Fill(populations, deck));
+
+    /// <summary>d(observable)/dP of each state in <see cref="States"/>, at these populations.</summary>
+    /// <exception cref="NotSupportedException">The expression reads a population through a function without a derivative rule.</exception>
+    public double[] PopulationGradient(double[] populations, Deck deck)
     {
         if (_expression is null)
         {
-            return populations[_states[0]];
+            return [1.0];
         }
 
+        var values = Fill(populations, deck);
+        return [.. _states.Select((_, k) => Derivative(SlotName(k)).Evaluate(values))];
+    }
+
+    /// <summary>d(observable)/d(<paramref name="input"/>) with the populations held (kT or a parameter the expression names; 0 otherwise).</summary>
+    /// <exception cref="NotSupportedException">The input reaches a function without a derivative rule.</exception>
+    public double InputDerivative(double[] populations, Deck deck, string input) =>
+        _expression is null || !_expression.UsedVariables.Contains(input) ? 0 : Derivative(input).Evaluate(Fill(populations, deck));
+
+    private CompiledExpression Derivative(string variable)
+    {
+        if (!_derivatives.TryGetValue(variable, out var derivative))
+        {
+            derivative = ExpressionCompiler.CompileDerivative(_expression!.Text, _span, _expression.Variables, variable);
+            _derivatives[variable] = derivative;
+        }
+
+        return derivative;
+    }
+
+    private double[] Fill(double[] populations, Deck deck)
+    {
         for (var k = 0; k < _states.Length; k++)
         {
             _buffer[k] = populations[_states[k]];
@@ -84,7 +116,7 @@ public sealed partial class Observable
             _buffer[_states.Length + 1 + k] = deck.Parameters[_parameters[k]].Value;
         }
 
-        return _expression.Evaluate(_buffer);
+        return _buffer;
     }
 
     /// <summary>

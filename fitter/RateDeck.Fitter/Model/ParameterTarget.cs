@@ -1,4 +1,5 @@
 using RateDeck.Decks;
+using RateDeck.Sensitivities;
 
 namespace RateDeck.Fitting.Model;
 
@@ -15,6 +16,9 @@ public abstract record ParameterTarget(string Key)
 
     /// <summary>Sets this value in the trial.</summary>
     public abstract void Apply(TrialDeck trial, double value);
+
+    /// <summary>What the value is, for its analytic derivative.</summary>
+    public abstract SensitivityInput Input { get; }
 
     /// <summary>
     /// Resolves a [fit.free] key against <paramref name="deck"/>: <c>kT</c>, a parameter name,
@@ -62,6 +66,9 @@ public sealed record TemperatureTarget(string Key) : ParameterTarget(Key)
 
     /// <inheritdoc />
     public override void Apply(TrialDeck trial, double value) => trial.Add(DeckOverride.KT(value));
+
+    /// <inheritdoc />
+    public override SensitivityInput Input => new(SensitivityKind.Temperature);
 }
 
 /// <summary>A [parameters] entry.</summary>
@@ -72,6 +79,9 @@ public sealed record DeckParameterTarget(string Key) : ParameterTarget(Key)
 
     /// <inheritdoc />
     public override void Apply(TrialDeck trial, double value) => trial.Add(DeckOverride.Parameter(Key, value));
+
+    /// <inheritdoc />
+    public override SensitivityInput Input => new(SensitivityKind.Parameter, Key);
 }
 
 /// <summary>One state's loss or pumping rate, where the deck gives them per state (values or by_state).</summary>
@@ -82,6 +92,9 @@ public sealed record StateRateTarget(string Key, int State, bool IsLoss) : Param
 
     /// <inheritdoc />
     public override void Apply(TrialDeck trial, double value) => trial.PerState(IsLoss ? "losses" : "pumping", Values)[State] = value;
+
+    /// <inheritdoc />
+    public override SensitivityInput Input => new(IsLoss ? SensitivityKind.StateLoss : SensitivityKind.StatePumping, Index: State);
 
     private double[] Values(Deck deck) => (IsLoss ? deck.Losses : deck.Pumping) switch
     {
@@ -99,6 +112,9 @@ public sealed record InitialTarget(string Key, int State) : ParameterTarget(Key)
 
     /// <inheritdoc />
     public override void Apply(TrialDeck trial, double value) => trial.PerState("initial", Values)[State] = value;
+
+    /// <inheritdoc />
+    public override SensitivityInput Input => new(SensitivityKind.StateInitial, Index: State);
 
     private double[] Values(Deck deck) => deck.Initial switch
     {
@@ -135,6 +151,9 @@ public sealed record TriangleTarget(string Key, int Entry) : ParameterTarget(Key
 
     /// <inheritdoc />
     public override double Read(Deck deck) => ((MeasuredOneWay)deck.Coupling).Entries[Entry].Rate;
+
+    /// <inheritdoc />
+    public override SensitivityInput Input => new(SensitivityKind.MeasuredRate, Index: Entry);
 
     /// <inheritdoc />
     public override void Apply(TrialDeck trial, double value)

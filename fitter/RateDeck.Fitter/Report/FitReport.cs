@@ -54,6 +54,12 @@ public sealed record FitReport
     /// <summary>Warnings, one line each.</summary>
     public required IReadOnlyList<string> Warnings { get; init; }
 
+    /// <summary>How each parameter's Jacobian column was formed: "analytic", or "central differences (why)".</summary>
+    public required IReadOnlyDictionary<string, string> Derivatives { get; init; }
+
+    /// <summary>Exact trajectories computed over every start (trials and differences; an analytic Jacobian reuses the trial's).</summary>
+    public required int TrajectoryEvaluations { get; init; }
+
     /// <summary>True when the best run converged.</summary>
     public bool Converged => Best.Converged;
 }

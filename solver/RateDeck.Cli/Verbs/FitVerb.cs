@@ -106,6 +106,8 @@ public sealed class FitVerb : IVerb
             ["iterations"] = report.Best.Iterations,
             ["function_evaluations"] = report.Best.ResidualEvaluations,
             ["jacobian_evaluations"] = report.Best.JacobianEvaluations,
+            ["trajectory_evaluations"] = report.TrajectoryEvaluations,
+            ["derivatives"] = report.Derivatives,
             ["infeasible_trials"] = report.Best.InfeasibleTrials,
             ["starts"] = report.Starts.Run,
             ["starts_converged"] = report.Starts.Converged,
@@ -153,7 +155,11 @@ public sealed class FitVerb : IVerb
         }
 
         output.WriteLine($"result       {(report.Converged ? "converged" : "NOT CONVERGED")}: {StopText(report)}");
-        output.WriteLine($"             {report.Best.Iterations} iterations, {report.Best.ResidualEvaluations} model evaluations, {report.Best.JacobianEvaluations} Jacobians; starts {report.Starts.Run} ({report.Starts.Converged} converged)");
+        output.WriteLine($"             {report.Best.Iterations} iterations, {report.Best.ResidualEvaluations} model evaluations, {report.Best.JacobianEvaluations} Jacobians; starts {report.Starts.Run} ({report.Starts.Converged} converged); {report.TrajectoryEvaluations} trajectories in all");
+        foreach (var group in report.Derivatives.GroupBy(d => d.Value))
+        {
+            output.WriteLine($"derivatives  {string.Join(", ", group.Select(d => d.Key))}: {group.Key}");
+        }
         output.WriteLine();
         var width = Math.Max(10, report.Parameters.Max(p => p.Name.Length));
         output.WriteLine($"  {"parameter".PadRight(width)}  {"estimate",-22} {"std error",-12} {"start",-12}{(report.Parameters.Any(p => p.ProfileLower is not null) ? " profile interval" : "")}");

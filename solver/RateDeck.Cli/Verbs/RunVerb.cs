@@ -87,7 +87,7 @@ public sealed class RunVerb : IVerb
 
         var outputFolder = VerbSupport.OutputFolder(args.Value(_out), loaded.Deck);
         var outputs = new RunOutputs(loaded, outputFolder);
-        var written = outputs.Write(exact, explicitResult, run.Spectrum, run.StepLimits, steady, dt, run.Method, !args.Has(_noPlots), args.Has(_writeRates));
+        var written = outputs.Write(exact, explicitResult, run.Spectrum, steady, dt, run.Method, !args.Has(_noPlots), args.Has(_writeRates));
         if (outputs.PlotsRefused is { } refused)
         {
             context.Error.WriteLine($"ratedeck run: {refused}");

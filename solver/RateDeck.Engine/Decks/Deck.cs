@@ -75,6 +75,9 @@ public sealed record Deck
     /// <summary>Time span, output grid and explicit step.</summary>
     public required RunSpec Run { get; init; }
 
+    /// <summary>What the plots call the state coordinate, and how their axes are scaled.</summary>
+    public PlotSpec Plot { get; init; } = PlotSpec.Default;
+
     /// <summary>A one-degree-of-freedom Lagrangian, when weights are derived from mechanics.</summary>
     public MechanicsSpec? Mechanics { get; init; }
 
@@ -140,6 +143,33 @@ public sealed record GridSpec(double[] Coordinates, string[] Labels, double[] Ce
 {
     /// <summary>Number of states.</summary>
     public int Count => Coordinates.Length;
+
+    /// <summary>How a generated grid is spaced; null for coordinates listed by the deck.</summary>
+    public GridSpacing? Spacing { get; init; }
+}
+
+/// <summary>How the points of a grid (states, output times) or a plot axis are spaced.</summary>
+public enum GridSpacing
+{
+    /// <summary>Evenly in x: a linear axis.</summary>
+    Linear,
+    /// <summary>Evenly in ln x: a logarithmic axis.</summary>
+    Logarithmic,
+}
+
+/// <summary>
+/// The plot keys: the name and unit of the state coordinate (<c>states.coordinate_name</c>,
+/// <c>states.coordinate_unit</c>) and the axis scales (<c>plot.time_axis</c>,
+/// <c>plot.state_axis</c>; null: follow the grid's spacing).
+/// </summary>
+/// <param name="CoordinateName">What the state coordinate is, e.g. "wave number k"; null: "state coordinate".</param>
+/// <param name="CoordinateUnit">The coordinate's unit, e.g. "1/nm"; null when it has none.</param>
+/// <param name="TimeAxis">The time axes' scale, or null to follow the output grid.</param>
+/// <param name="StateAxis">The state-coordinate axes' scale, or null to follow the state grid.</param>
+public sealed record PlotSpec(string? CoordinateName, string? CoordinateUnit, GridSpacing? TimeAxis, GridSpacing? StateAxis)
+{
+    /// <summary>No name or unit given, both axes following their grids.</summary>
+    public static PlotSpec Default { get; } = new(null, null, null, null);
 }
 
 /// <summary>A per-state quantity: explicit values or an expression of the state.</summary>

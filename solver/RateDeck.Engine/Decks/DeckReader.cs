@@ -124,6 +124,7 @@ public static partial class DeckReader
                 Initial = ReadInitial(Section("initial")),
                 Run = ReadRun(Section("run")),
                 Mechanics = mechanics,
+                Plot = ReadPlot(Section("states"), Section("plot")),
                 Parameters = parameters,
                 Overrides = overrides.Select(o => o.ToString()).ToArray(),
                 AppliedOverrides = overrides.ToArray(),
@@ -195,6 +196,33 @@ public static partial class DeckReader
 
             var model = key == "time" ? $"; for a model unit without conversion write model_time = \"{name.Trim()}\" instead" : "";
             throw new DeckException(scalar.ContentSpan, $"unknown time unit \"{name}\" in `units.{key}`.{Suggestions.Hint(name, TimeUnits.Names)} Known units: {KnownTimeUnits}{model}.");
+        }
+
+        /// <summary>states.coordinate_name and states.coordinate_unit (labels on one line), [plot] axis scales.</summary>
+        private static PlotSpec ReadPlot(DeckSection states, DeckSection plot)
+        {
+            static GridSpacing? Axis(DeckSection plot, string key) => plot.Word(key, ["auto", "linear", "log"]) switch
+            {
+                "linear" => GridSpacing.Linear,
+                "log" => GridSpacing.Logarithmic,
+                _ => null,
+            };
+
+            return new PlotSpec(PlotLabel(states, "coordinate_name", "\"wave number k\""), PlotLabel(states, "coordinate_unit", "\"1/nm\""),
+                Axis(plot, "time_axis"), Axis(plot, "state_axis"));
+        }
+
+        private static string? PlotLabel(DeckSection section, string key, string example)
+        {
+            if (section.String(key) is not { } scalar)
+            {
+                return null;
+            }
+
+            var label = ((string)scalar.Value).Trim();
+            return label.Length > 0 && !label.Any(char.IsControl)
+                ? label
+                : throw new DeckException(scalar.ContentSpan, $"`{section.Qualified(key)}` is a label for the plots' axes and must be a short text on one line, like {example}");
         }
 
         private static (double KT, SourceSpan Span) ReadTemperature(DeckSection temperature, EnergyUnit unit)

@@ -16,7 +16,7 @@ internal static class DeckSchema
         ["units"] = ["energy", "time", "model_time", "output_time"],
         ["temperature"] = ["kT", "kelvin"],
         ["parameters"] = [],
-        ["states"] = ["coordinates", "labels", "spacing", "count", "from", "to", "label_prefix"],
+        ["states"] = ["coordinates", "labels", "spacing", "count", "from", "to", "label_prefix", "coordinate_name", "coordinate_unit"],
         ["energies"] = ["values", "expression"],
         ["weights"] = ["values", "expression", "isotropic_dimension", "from_mechanics"],
         ["transfer"] = ["kind", "direction", "csv", "kernel", "band"],
@@ -25,6 +25,7 @@ internal static class DeckSchema
         ["initial"] = ["state", "values", "expression", "equilibrium"],
         ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "times", "plot_states"],
         ["mechanics"] = ["lagrangian", "planck"],
+        ["plot"] = ["time_axis", "state_axis"],
         ["fit"] = ["starts", "seed", "max_iterations", "profile", "profile_level", "derivatives", "triangle", "free", "observables", "data"],
     };
 

@@ -84,7 +84,7 @@ internal static class GridReader
             labels = DefaultLabels(prefix is null ? "s" : ValidLabel((string)prefix.Value, prefix.ContentSpan, prefix: true), n);
         }
 
-        return new GridSpec(x, labels, widths, states.Span);
+        return new GridSpec(x, labels, widths, states.Span) { Spacing = log ? GridSpacing.Logarithmic : GridSpacing.Linear };
     }
 
     /// <summary>

@@ -41,6 +41,25 @@ public static class ExpressionCompiler
     }
 
     /// <summary>
+    /// Compiles the derivative of <paramref name="text"/> with respect to the variable
+    /// <paramref name="withRespectTo"/> (one of <paramref name="variables"/>), symbolically
+    /// (<see cref="ExpressionDerivative"/>); evaluated with the same values array as the expression.
+    /// </summary>
+    /// <exception cref="DeckException">The text does not parse.</exception>
+    /// <exception cref="NotSupportedException">The variable reaches min, max or gamma, which have no derivative rule.</exception>
+    public static CompiledExpression CompileDerivative(string text, SourceSpan origin, IReadOnlyList<string> variables, string withRespectTo)
+    {
+        CheckNames(variables);
+        var index = variables.ToList().IndexOf(withRespectTo);
+        ArgumentOutOfRangeException.ThrowIfNegative(index, nameof(withRespectTo));
+        var (tree, used) = Parser.Parse(new ExpressionSource(text, origin), variables);
+        var derivative = ExpressionDerivative.Of(tree, index);
+        var values = Expression.Parameter(typeof(double[]), "values");
+        var evaluate = Expression.Lambda<Func<double[], double>>(derivative.Emit(values), values).Compile();
+        return new CompiledExpression($"d({text})/d{withRespectTo}", Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), evaluate);
+    }
+
+    /// <summary>
     /// True for the names of the language's functions and constants (exp, sqrt, ..., pi, e),
     /// which cannot name a variable or a deck parameter.
     /// </summary>

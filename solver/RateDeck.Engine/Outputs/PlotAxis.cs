@@ -16,6 +16,9 @@ internal sealed class PlotAxis
 
     public bool IsLog { get; }
 
+    /// <summary>A linear axis.</summary>
+    public static PlotAxis Linear { get; } = new(false);
+
     /// <summary>
     /// The scale for a grid (times, state coordinates): logarithmic when all values are
     /// non-negative, the positive ones span at least two decades, and half of them lie below a tenth

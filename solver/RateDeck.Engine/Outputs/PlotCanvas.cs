@@ -23,6 +23,9 @@ internal static class PlotCanvas
     private const float _legendSize = 14;
     private const string _preferredFont = "DejaVu Sans";
 
+    // About this many characters of DejaVu Sans at the title size fit across the 800-pixel layout.
+    private const int _titleCharactersPerLine = 62;
+
     public static readonly IPalette SeriesPalette = new ScottPlot.Palettes.Category10();
     public static readonly LinePattern[] Patterns = [LinePattern.Solid, LinePattern.Dashed, LinePattern.Dotted, LinePattern.DenselyDashed];
 
@@ -47,7 +50,7 @@ internal static class PlotCanvas
         {
             plot.Font.Set(FontFamily);
         }
-        plot.Axes.Title.Label.Text = text.Title;
+        plot.Axes.Title.Label.Text = WrapTitle(text.Title);
         plot.Axes.Title.Label.FontSize = _titleSize;
         foreach (var (axis, label) in new[] { ((IAxis)plot.Axes.Bottom, text.XLabel), (plot.Axes.Left, text.YLabel) })
         {
@@ -60,6 +63,42 @@ internal static class PlotCanvas
         plot.Grid.MinorLineColor = Colors.Black.WithAlpha(0.06);
         plot.Grid.MinorLineWidth = 1;
         return plot;
+    }
+
+    /// <summary>
+    /// The title in lines of at most <paramref name="charactersPerLine"/> characters where it can be
+    /// broken: after its last ": " (the deck's title, then what the plot shows) and at spaces.
+    /// </summary>
+    public static string WrapTitle(string title, int charactersPerLine = _titleCharactersPerLine)
+    {
+        if (title.Length <= charactersPerLine || title.Contains('\n', StringComparison.Ordinal))
+        {
+            return title;
+        }
+
+        var colon = title.LastIndexOf(": ", StringComparison.Ordinal);
+        var parts = colon > 0 ? new[] { title[..(colon + 1)], title[(colon + 2)..] } : [title];
+        var lines = new List<string>();
+        foreach (var part in parts)
+        {
+            var line = "";
+            foreach (var word in part.Split(' '))
+            {
+                if (line.Length > 0 && line.Length + 1 + word.Length > charactersPerLine)
+                {
+                    lines.Add(line);
+                    line = word;
+                }
+                else
+                {
+                    line = line.Length == 0 ? word : $"{line} {word}";
+                }
+            }
+
+            lines.Add(line);
+        }
+
+        return string.Join('\n', lines);
     }
 
     /// <summary>
@@ -162,6 +201,10 @@ internal static class PlotCanvas
             }
         }
         plot.ShowLegend(Edge.Right);
+        // The title is centred over the data area, which the legend beside it narrows.
+        plot.RenderInMemory(options.Width, options.Height);
+        var characters = (int)(_titleCharactersPerLine * plot.LastRender.DataRect.Width / _layoutWidth);
+        plot.Axes.Title.Label.Text = WrapTitle(plot.Axes.Title.Label.Text.Replace('\n', ' '), Math.Max(characters, 20));
     }
 
     public static void Save(Plot plot, string path, PlotOptions options)

@@ -1,5 +1,3 @@
-using RateDeck.Diagnostics;
-
 namespace RateDeck.Outputs;
 
 /// <summary>How an axis of a plot is scaled.</summary>
@@ -44,6 +42,9 @@ public sealed record PlotOptions
     /// squash the part that matters into a line.
     /// </summary>
     public double MaxDecades { get; init; } = 20;
+
+    /// <summary>The values not drawn as data, or null to draw every value a log axis can show.</summary>
+    public PlotFloor? Floor { get; init; }
 }
 
 /// <summary>One state's population over time, exact and (optionally) explicit.</summary>
@@ -58,21 +59,18 @@ public sealed record StateSeries(string Label, double[] Exact, double[]? Explici
 public sealed record Curve(string Label, double[] Values);
 
 /// <summary>
-/// A horizontal marker on the spectrum plot: the largest |lambda| an explicit step tolerates.
+/// The resolution of plotted values: on a logarithmic value axis nothing below <paramref name="Value"/> is
+/// drawn as data, and the legend says "not resolved below" it.
 /// </summary>
-/// <param name="Label">The legend entry.</param>
-/// <param name="Magnitude">The |lambda| at which the line is drawn, per time unit.</param>
-public sealed record RateLimitLine(string Label, double Magnitude)
-{
-    /// <summary>
-    /// Forward Euler with step <paramref name="dt"/>: stable for |1 + lambda dt| &lt;= 1, so on the
-    /// negative real axis up to |lambda| = 2 / dt (SPEC 2; common practice).
-    /// </summary>
-    public static RateLimitLine ForwardEuler(double dt) => new($"Euler, dt = {Text.Format.Number(dt)}: 2/dt", 2.0 / dt);
+/// <param name="Value">The smallest value drawn, in data units (&gt;= 0).</param>
+public sealed record PlotFloor(double Value);
 
-    /// <summary>
-    /// Classical RK4 with step <paramref name="dt"/>: its stability region meets the negative real
-    /// axis at lambda dt = -<see cref="StepLimits.Rk4RealAxisLimit"/>, so the line is there over dt.
-    /// </summary>
-    public static RateLimitLine RungeKutta4(double dt) => new($"RK4, dt = {Text.Format.Number(dt)}: {Text.Format.Number(StepLimits.Rk4RealAxisLimit)}/dt", StepLimits.Rk4RealAxisLimit / dt);
-}
+/// <summary>The inputs of a Boltzmann plot, one entry per state.</summary>
+/// <param name="Label">The legend entry of the points, e.g. "final (exact), t = 100 s".</param>
+/// <param name="Energies">E_i in the deck's energy unit.</param>
+/// <param name="LogWeights">ln g_i.</param>
+/// <param name="Populations">n_i.</param>
+/// <param name="LogEquilibrium">ln pi_i of the normalised equilibrium at <paramref name="KT"/>.</param>
+/// <param name="KT">kT in the energy unit.</param>
+/// <param name="EnergyUnit">The energy unit's name for the legend; null or empty for model units.</param>
+public sealed record BoltzmannPoints(string Label, double[] Energies, double[] LogWeights, double[] Populations, double[] LogEquilibrium, double KT, string? EnergyUnit);

@@ -98,6 +98,9 @@ public sealed class SymmetricEigenPropagator : IPropagator
     /// <summary>Eigenvalues of S (= those of K), ascending, with those within <see cref="ZeroTolerance"/> of zero set to 0.</summary>
     public IReadOnlyList<double> Eigenvalues => _values;
 
+    /// <summary>The orthonormal eigenvectors V of S, column m for <see cref="Eigenvalues"/>[m] (shared, not copied: do not modify).</summary>
+    internal DenseMatrix Vectors => _vectors;
+
     /// <summary>rho = max |l|.</summary>
     public double SpectralRadius { get; }
 

@@ -174,6 +174,38 @@ public static class RateMatrixAssembler
         return BalanceOrigin.CompletedByDetailedBalance;
     }
 
+    /// <summary>
+    /// d W(x -> y) / d(<paramref name="input"/>) (kT or a parameter) for the zero-based states
+    /// from, to at coordinates x, y: 0 beyond the band, where the kernel is not evaluated; null when
+    /// the kernel does not read the input.
+    /// </summary>
+    /// <exception cref="NotSupportedException">The input reaches a function without a derivative rule.</exception>
+    internal static Func<double, double, int, int, double>? KernelDerivative(KernelModel kernel, Deck deck, string input)
+    {
+        var scope = ExpressionScope.Create(deck, KernelVariables);
+        if (!scope.InputsRead(scope.Compile(kernel.Text, kernel.Span)).Contains(input))
+        {
+            return null;
+        }
+
+        var derivative = scope.CompileDerivative(kernel.Text, kernel.Span, input);
+        var values = scope.NewValues();
+        var band = kernel.Band ?? int.MaxValue;
+        return (x, y, from, to) =>
+        {
+            if (Math.Abs(from - to) > band)
+            {
+                return 0;
+            }
+
+            values[0] = x;
+            values[1] = y;
+            values[2] = from + 1;
+            values[3] = to + 1;
+            return derivative.Evaluate(values);
+        };
+    }
+
     /// <summary>Validates one measured entry; <paramref name="seen"/> marks pairs already given.</summary>
     private static void CheckEntry(RateEntry entry, StateSpace states, PairSet seen)
     {

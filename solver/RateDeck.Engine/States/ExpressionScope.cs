@@ -56,6 +56,16 @@ internal sealed class ExpressionScope
             new CompiledKey(text, origin, string.Join(',', _names)),
             () => ExpressionCompiler.Compile(text, origin, _names));
 
+    /// <summary>
+    /// Compiles d(<paramref name="text"/>)/d(<paramref name="input"/>) in this scope, or takes the
+    /// compiled form kept from an earlier deck of the same file.
+    /// </summary>
+    /// <exception cref="NotSupportedException">The input reaches a function without a derivative rule.</exception>
+    public CompiledExpression CompileDerivative(string text, SourceSpan origin, string input)
+        => _deck.Memo.GetOrAdd(
+            new DerivativeKey(text, origin, string.Join(',', _names), input),
+            () => ExpressionCompiler.CompileDerivative(text, origin, _names, input));
+
     /// <summary>A value buffer: the own variables zero, then kT and the parameters of this deck.</summary>
     public double[] NewValues()
     {
@@ -78,4 +88,6 @@ internal sealed class ExpressionScope
     private double InputValue(string name) => name == TemperatureName ? _deck.KT : _deck.Parameters[name].Value;
 
     private sealed record CompiledKey(string Text, SourceSpan Origin, string Names);
+
+    private sealed record DerivativeKey(string Text, SourceSpan Origin, string Names, string Input);
 }

@@ -59,10 +59,32 @@ public static class PerStateEvaluator
         return (double[])given.Values.Clone();
     }
 
+    /// <summary>
+    /// d(source)/d(<paramref name="input"/>) per state, <paramref name="input"/> being kT or a
+    /// parameter: null when the source gives values or its expression does not read the input.
+    /// </summary>
+    /// <exception cref="NotSupportedException">The input reaches a function without a derivative rule.</exception>
+    internal static double[]? Derivative(Deck deck, PerStateSource source, string input)
+    {
+        if (source is not PerStateExpression expression)
+        {
+            return null;
+        }
+
+        var scope = ExpressionScope.Create(deck, StateVariables);
+        return scope.InputsRead(scope.Compile(expression.Text, expression.Span)).Contains(input)
+            ? EvaluateEach(deck, scope, scope.CompileDerivative(expression.Text, expression.Span, input))
+            : null;
+    }
+
     private static double[] EvaluateExpression(Deck deck, PerStateExpression expression)
     {
         var scope = ExpressionScope.Create(deck, StateVariables);
-        var compiled = scope.Compile(expression.Text, expression.Span);
+        return EvaluateEach(deck, scope, scope.Compile(expression.Text, expression.Span));
+    }
+
+    private static double[] EvaluateEach(Deck deck, ExpressionScope scope, Expressions.CompiledExpression compiled)
+    {
         var buffer = scope.NewValues();
         var values = new double[deck.Grid.Count];
         for (var state = 0; state < values.Length; state++)

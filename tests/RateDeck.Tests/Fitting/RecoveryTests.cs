@@ -29,6 +29,8 @@ public sealed class RecoveryTests
         Assert.True(Math.Abs(kT.Value - truth) <= 2 * kT.StandardError, $"kT {kT.Value} +- {kT.StandardError}, truth {truth}");
         Assert.True(kT.StandardError < 0.05 * truth, $"standard error {kT.StandardError} is not small");
         Assert.Equal(1, outcome.Problem.DataSets[0].MechanicsDerivations);
+        // The Lagrangian does not read kT, so the Jacobian is the analytic one (TrajectorySensitivityTests checks it against SciPy).
+        Assert.Equal("analytic", outcome.Report.Derivatives["kT"]);
     }
 
     [Fact]

@@ -59,13 +59,27 @@ public sealed class PlotTests
     {
         using var folder = new TempFolder();
         var path = folder.File("spectrum.png");
-        double[] magnitudes = [0.0, 1e-3, 0.1, 2.0, 40.0, 900.0, 3e4];
+        System.Numerics.Complex[] eigenvalues = [0.0, -1e-3, -0.1, -2.0, -40.0, -900.0, -3e4, new(-5, 20), new(-5, -20)];
 
-        Plots.Spectrum(path, new PlotText("Spectrum", "mode", "|λ| (1/ps)"), magnitudes,
-            [RateLimitLine.ForwardEuler(0.01), RateLimitLine.RungeKutta4(0.01)], zeroTolerance: 1e-12,
+        Plots.Spectrum(path, new PlotText("Spectrum", "mode", "|λ·dt|"), eigenvalues, dt: 0.01, zeroTolerance: 1e-12,
             new PlotOptions { Width = 1200, Height = 800 });
 
         AssertPng(path, 1200, 800);
+    }
+
+    [Fact]
+    public void Boltzmann_WritesAPngOfTheRequestedSize()
+    {
+        using var folder = new TempFolder();
+        var path = folder.File("boltzmann.png");
+        double[] energies = [0, 1, 2, 3];
+        double[] logWeights = [0, Math.Log(3), Math.Log(5), Math.Log(7)];
+
+        Plots.Boltzmann(path, new PlotText("Boltzmann", "E (eV)", "ln(n/g)"),
+            new BoltzmannPoints("final", energies, logWeights, [0.7, 0.2, 0.1, 0], [-0.5, -1.2, -2.1, -3.3], 1.0, "eV"),
+            new PlotOptions { Width = 800, Height = 600 });
+
+        AssertPng(path, 800, 600);
     }
 
     [Fact]
@@ -90,15 +104,6 @@ public sealed class PlotTests
 
         Assert.Throws<ArgumentException>(() => Plots.Distributions(folder.File("x.png"), new PlotText("t", "x", "y"), [1.0], [new Curve("a", [1.0])],
             new PlotOptions { Width = 50, Height = 50 }));
-    }
-
-    [Fact]
-    public void RateLimitLines_SitAtTheRealAxisStabilityBounds()
-    {
-        // Forward Euler: |1 + z| <= 1 meets the negative real axis at z = -2; classical RK4 at
-        // z = -2.7853 (SPEC 2; Hairer and Wanner, Solving ODEs II, from memory).
-        Assert.Equal(200.0, RateLimitLine.ForwardEuler(0.01).Magnitude, 12);
-        Assert.Equal(278.53, RateLimitLine.RungeKutta4(0.01).Magnitude, 0.01);
     }
 
     [Fact]

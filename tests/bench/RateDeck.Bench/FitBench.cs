@@ -33,7 +33,7 @@ internal static class FitBench
                 {
                     string[] overrides = [$"fit.derivatives={mode}"];
                     FitOutcome? last = null;
-                    var seconds = Timing.Measure([() => last = Fitter.Fit(deck, overrides, algebra, new FitOptions())], warmups: 2, runs)[0];
+                    var seconds = Timing.Measure([() => last = Fitter.Fit(deck, overrides, algebra, new FitOptions())], warmups: 5, runs)[0];
                     var report = last!.Report;
                     output.WriteLine(string.Create(
                         CultureInfo.InvariantCulture,
