@@ -8,11 +8,13 @@ namespace RateDeck.Tests.Cli;
 /// <summary>`ratedeck init [FILE]` (issue 9 §3): a starter deck that checks clean and runs, and an existing file left alone unless --force.</summary>
 public sealed class InitVerbTests
 {
-    [Fact]
-    public void Init_WritesAStarterDeckThatChecksCleanAndRuns()
+    [Theory]
+    [InlineData("starter.toml")]
+    [InlineData("a deck with spaces.toml")]
+    public void Init_WritesAStarterDeckThatChecksCleanAndRuns(string fileName)
     {
         using var folder = new TempFolder();
-        var deck = folder.File("starter.toml");
+        var deck = folder.File(fileName);
 
         var init = CliRunner.Run("init", deck);
         var check = CliRunner.Run("check", deck, "--json");
