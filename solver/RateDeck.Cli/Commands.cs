@@ -64,7 +64,7 @@ public static class Commands
 
     private static string Usage(Argument argument) => argument.Arity.MinimumNumberOfValues > 0 ? argument.Name : $"[{argument.Name}]";
 
-    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new InitVerb()];
+    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new InitVerb(), new ResolveVerb()];
 
     private static Command Root(IVerb[] verbs)
     {
