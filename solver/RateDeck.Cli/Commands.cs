@@ -64,7 +64,7 @@ public static class Commands
 
     private static string Usage(Argument argument) => argument.Arity.MinimumNumberOfValues > 0 ? argument.Name : $"[{argument.Name}]";
 
-    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new InitVerb(), new ResolveVerb()];
+    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new SweepVerb(), new CollectVerb(), new InitVerb(), new ResolveVerb()];
 
     private static Command Root(IVerb[] verbs)
     {
@@ -128,17 +128,23 @@ public static class Commands
         if (ReferenceEquals(command, root))
         {
             output.WriteLine("Exit codes: 0 ok, 1 internal error, 2 bad deck or command line, 3 unsafe time step, 4 check failed,");
-            output.WriteLine("5 output not written, 6 fit not converged, 130 stopped by SIGINT, 143 by SIGTERM (docs/cli.md).");
+            output.WriteLine("5 output not written, 6 fit not converged, 7 sweep points failed or missing, 130 stopped by SIGINT, 143 by SIGTERM (docs/cli.md).");
         }
     }
 
-    private static int Execute(IVerb verb, VerbArguments args, VerbContext context)
+    private static int Execute(IVerb verb, VerbArguments args, VerbContext context) =>
+        Guard(verb.Command.Name, context.Error, () => verb.Execute(args, context));
+
+    /// <summary>
+    /// Runs <paramref name="body"/> of verb <paramref name="name"/> and turns every failure into its
+    /// documented exit code and one plain message on <paramref name="stderr"/>; the same for a
+    /// verb on the command line and for each point of a sweep.
+    /// </summary>
+    internal static int Guard(string name, TextWriter stderr, Func<int> body)
     {
-        var stderr = context.Error;
-        var name = verb.Command.Name;
         try
         {
-            return verb.Execute(args, context);
+            return body();
         }
         catch (UsageException e)
         {

@@ -26,6 +26,9 @@ public static class ExitCodes
     /// <summary><c>ratedeck fit</c> stopped without converging (iteration limit, or no step reduces the RSS); the report is still printed.</summary>
     public const int NotConverged = 6;
 
+    /// <summary><c>ratedeck sweep</c> and <c>collect</c>: the summary is written, and some points failed or have no results yet (its status column says which).</summary>
+    public const int PointsFailed = 7;
+
     /// <summary>Stopped by SIGINT (Ctrl-C): 128 + 2, as shells report it. Temporary files were removed; the output folder holds the earlier run's files or all of this run's, never a mix.</summary>
     public const int Interrupted = 130;
 

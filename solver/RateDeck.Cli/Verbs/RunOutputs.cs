@@ -9,9 +9,9 @@ namespace RateDeck.Cli.Verbs;
 /// <summary>
 /// The files of a run, staged in a <see cref="StagedOutputFolder"/> so that they enter the folder all
 /// together or not at all: populations of both methods, their differences, the spectrum, the steady
-/// state, and the plots.
+/// state, the one-row table of scalar results (<see cref="RunResultsFile"/>), and the plots.
 /// </summary>
-internal sealed class RunOutputs(LoadedDeck loaded, string folder)
+internal sealed class RunOutputs(LoadedDeck loaded, string folder, DeckRun run)
 {
     private readonly OutputHeader _header = OutputHeader.For(loaded.Deck);
     private StagedOutputFolder? _staging;
@@ -49,6 +49,7 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder)
             WriteFile("rate-matrix.csv", path => ResultCsv.WriteRateMatrix(path, _header, loaded.Rates, deck.TimeUnit));
         }
 
+        WriteFile(RunResultsFile.Name, path => RunResultsFile.Write(path, _header, run));
         PlotsRefused = plots ? Plots.Unavailable : null;
         if (plots && PlotsRefused is null)
         {

@@ -27,10 +27,11 @@ public sealed class RunVerb : IVerb
     private readonly Option<bool> _requireAccuracy = VerbOptions.Switch("--require-accuracy", "exit 4 when explicit and exact differ by more than run.accuracy of the total");
     private readonly Option<bool> _noPlots = VerbOptions.Switch("--no-plots", "write no PNG plots");
     private readonly Option<bool> _writeRates = VerbOptions.Switch("--write-rates", "also write the assembled rate matrix K as rate-matrix.csv (from, to, rate triplets)");
+    private readonly Option<string?> _statusFile = VerbOptions.Single<string?>("--status-file", "FILE", "also write FILE, one CSV row: the exit code and the diagnostics of this run, whatever the outcome (the job lines of sweep --emit-jobs use it)", text => text);
 
     /// <summary>Declares the verb and its options.</summary>
-    public RunVerb() => Command = DeckOptions.Command("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, plots",
-        _dt, _method, _out, _exactOnly, _exact, _implicit, _allowUnstable, _requireAccuracy, _noPlots, _writeRates);
+    public RunVerb() => Command = DeckOptions.Command("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, results, plots",
+        _dt, _method, _out, _exactOnly, _exact, _implicit, _allowUnstable, _requireAccuracy, _noPlots, _writeRates, _statusFile);
 
     /// <inheritdoc />
     public Command Command { get; }
@@ -38,23 +39,47 @@ public sealed class RunVerb : IVerb
     /// <inheritdoc />
     public int Execute(VerbArguments args, VerbContext context)
     {
-        var loaded = VerbSupport.Load(args);
-        var step = args.Value(_dt);
+        var settings = new RunSettings(args.Value(_dt), args.Value(_method), args.Value(_out), args.Has(_exactOnly), args.Value(_exact), args.Has(_implicit),
+            args.Has(_allowUnstable), args.Has(_requireAccuracy), !args.Has(_noPlots), args.Has(_writeRates), args.Json, args.Quiet, VerbSupport.ShowsProgress(args, context));
+        return args.Value(_statusFile) is { } statusFile
+            ? WithStatus(statusFile, context, recorded => Execute(VerbSupport.Load(args), settings, recorded))
+            : Execute(VerbSupport.Load(args), settings, context);
+    }
+
+    /// <summary>
+    /// Runs <paramref name="body"/> as the verb <c>run</c> (every failure turned into its exit code
+    /// and message), then writes the exit code and what it printed on stderr to the status file
+    /// <paramref name="statusFile"/>, whatever the outcome: a sweep point, in process or as a job.
+    /// </summary>
+    internal static int WithStatus(string statusFile, VerbContext context, Func<VerbContext, int> body)
+    {
+        using var diagnostics = new StringWriter();
+        using var both = new TeeWriter(context.Error, diagnostics);
+        var recorded = context with { Error = both };
+        var code = Commands.Guard("run", both, () => body(recorded));
+        Sweeps.SweepFolder.WriteStatus(statusFile, code, diagnostics.ToString());
+        return code;
+    }
+
+    /// <summary>Runs <paramref name="loaded"/> with <paramref name="settings"/>: the work of the verb after its command line is read.</summary>
+    internal static int Execute(LoadedDeck loaded, RunSettings settings, VerbContext context)
+    {
+        var step = settings.Step;
         var run = new DeckRun(loaded, new RunOptions
         {
-            Method = args.Value(_method),
+            Method = settings.Method,
             Dt = step?.Fixed,
             AutomaticDt = step is { Fixed: null },
-            ExactOnly = args.Has(_exactOnly),
-            AllowUnsafeStep = args.Has(_allowUnstable),
-            ExactPath = args.Value(_exact) switch
+            ExactOnly = settings.ExactOnly,
+            AllowUnsafeStep = settings.AllowUnstable,
+            ExactPath = settings.ExactPath switch
             {
                 "implicit" => ExactPathRequest.Implicit,
                 "extended" => ExactPathRequest.Extended,
                 _ => null,
             },
-            WithImplicit = args.Has(_implicit),
-            Progress = label => new TerminalProgress($"{label,-8}", enabled: VerbSupport.ShowsProgress(args, context)),
+            WithImplicit = settings.WithImplicit,
+            Progress = label => new TerminalProgress($"{label,-8}", enabled: settings.Progress),
         });
         var explicitWanted = !run.Options.ExactOnly && run.ExplicitDeclined is null;
         if (explicitWanted && !run.StepVerdict.Safe && !run.Options.AllowUnsafeStep)
@@ -73,7 +98,7 @@ public sealed class RunVerb : IVerb
         }
         catch (ArgumentException e) when (run.Options.ExactPath is not null)
         {
-            throw new UsageException($"--exact {args.Value(_exact)}: {e.Message}");
+            throw new UsageException($"--exact {settings.ExactPath}: {e.Message}");
         }
 
         var exact = run.Exact;
@@ -85,9 +110,9 @@ public sealed class RunVerb : IVerb
         var dt = run.ExplicitStep;
         var stabilityLimit = run.StabilityLimit;
 
-        var outputFolder = VerbSupport.OutputFolder(args.Value(_out), loaded.Deck);
-        var outputs = new RunOutputs(loaded, outputFolder);
-        var written = outputs.Write(exact, explicitResult, run.Spectrum, steady, dt, run.Method, !args.Has(_noPlots), args.Has(_writeRates));
+        var outputFolder = VerbSupport.OutputFolder(settings.Out, loaded.Deck);
+        var outputs = new RunOutputs(loaded, outputFolder, run);
+        var written = outputs.Write(exact, explicitResult, run.Spectrum, steady, dt, run.Method, settings.Plots, settings.WriteRates);
         if (outputs.PlotsRefused is { } refused)
         {
             context.Error.WriteLine($"ratedeck run: {refused}");
@@ -95,7 +120,7 @@ public sealed class RunVerb : IVerb
 
 
         var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
-        if (args.Json)
+        if (settings.Json)
         {
             var fields = VerbSupport.JsonFields(loaded);
             fields["propagator"] = exactPropagator.Name;
@@ -123,7 +148,7 @@ public sealed class RunVerb : IVerb
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
-        else if (args.Quiet)
+        else if (settings.Quiet)
         {
             var explicitPart = explicitMethod is not null && difference is not null
                 ? $"{explicitMethod} dt = {Format.Number(dt)} {loaded.Deck.TimeUnit} differs from exact by {Format.Number(difference.MaxRelativeToTotal)} of the total"
@@ -171,7 +196,7 @@ public sealed class RunVerb : IVerb
             context.Out.WriteLine($"wrote {written.Count} files to {outputFolder}: {string.Join(", ", written)}");
         }
 
-        if (run.AccuracyMet == false && args.Has(_requireAccuracy))
+        if (run.AccuracyMet == false && settings.RequireAccuracy)
         {
             context.Error.WriteLine($"ratedeck run: explicit and exact differ by {Format.Number(difference!.MaxRelativeToTotal)} of the total, above run.accuracy = {Format.Number(loaded.Deck.Run.Accuracy)} (--require-accuracy)");
             return ExitCodes.CheckFailed;
@@ -201,3 +226,20 @@ public sealed class RunVerb : IVerb
         }
     }
 }
+
+/// <summary>What <c>run</c> was asked for beyond the deck, as its options say (a sweep point fills it in code).</summary>
+/// <param name="Step">--dt: a fixed step or auto; null: the deck's.</param>
+/// <param name="Method">--method; null: the deck's.</param>
+/// <param name="Out">--out; null: the default folder.</param>
+/// <param name="ExactOnly">--exact-only.</param>
+/// <param name="ExactPath">--exact: auto, implicit or extended; null: automatic.</param>
+/// <param name="WithImplicit">--implicit.</param>
+/// <param name="AllowUnstable">--allow-unstable.</param>
+/// <param name="RequireAccuracy">--require-accuracy.</param>
+/// <param name="Plots">Draw the PNG plots (not --no-plots).</param>
+/// <param name="WriteRates">--write-rates.</param>
+/// <param name="Json">--json.</param>
+/// <param name="Quiet">--quiet: one summary line.</param>
+/// <param name="Progress">Draw progress bars on the terminal.</param>
+internal sealed record RunSettings(StepRequest? Step, Decks.ExplicitMethod? Method, string? Out, bool ExactOnly, string? ExactPath, bool WithImplicit,
+    bool AllowUnstable, bool RequireAccuracy, bool Plots, bool WriteRates, bool Json, bool Quiet, bool Progress);

@@ -112,6 +112,19 @@ public sealed record Deck
         var source = Source ?? throw new InvalidOperationException("this deck was built in code, not read from a deck file, so there is no file to apply overrides to");
         return DeckReader.Derive(source, [.. AppliedOverrides, .. overrides], Memo);
     }
+
+    /// <summary>
+    /// Checks that an override may set <paramref name="key"/> (a deck key such as
+    /// <c>temperature.kT</c>, or a parameter the deck defines) without applying any value: a sweep
+    /// refuses an unknown key before it runs a point. Errors are reported at <paramref name="origin"/>.
+    /// </summary>
+    /// <exception cref="DeckException">The key is unknown, or names a table.</exception>
+    /// <exception cref="InvalidOperationException">The deck was built in code, not read from a deck file.</exception>
+    public void CheckOverrideKey(string key, SourceSpan origin)
+    {
+        var source = Source ?? throw new InvalidOperationException("this deck was built in code, not read from a deck file, so it has no keys to override");
+        Decks.Overrides.CheckKey(source.Root, key, origin);
+    }
 }
 
 /// <summary>A deck file as read: its values (schema-checked, before overrides), Tomlyn's syntax tree of the text, where it is and its hash.</summary>

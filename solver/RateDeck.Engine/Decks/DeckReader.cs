@@ -65,6 +65,8 @@ public static partial class DeckReader
 
     private sealed record RateFileKey(string FullPath, string Labels, RateCsvReader.Rules Rules);
 
+    private sealed record InitialFileKey(string FullPath, string Labels);
+
     [GeneratedRegex("^[A-Za-z_][A-Za-z0-9_]*$")]
     private static partial Regex IdentifierPattern();
 
@@ -390,27 +392,43 @@ public static partial class DeckReader
 
         private (IReadOnlyList<RateEntry> Entries, SourceSpan Span) ReadCsv(DeckSection transfer, RateCsvReader.Rules rules)
         {
-            var csv = transfer.RequireString("csv", "the file of measured rates, columns from,to,rate");
-            var given = (string)csv.Value;
-            if (given.Trim().Length == 0)
-            {
-                throw new DeckException(csv.ContentSpan, "`transfer.csv` is empty; name the rate file, like \"rates.csv\"");
-            }
-
-            if (given.Contains('\0', StringComparison.Ordinal))
-            {
-                throw new DeckException(csv.ContentSpan, "`transfer.csv` contains a NUL character (\\u0000); write the file name without it");
-            }
-
-            var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);
-            var fullPath = Path.GetFullPath(display);
+            var (display, fullPath, span) = CsvPath(transfer, "the file of measured rates, columns from,to,rate", "rate file", "rates.csv");
 
             // A deck derived by overrides reads the file once: the rows depend only on the file,
             // the state labels (which resolve its cells) and the declared direction.
             var entries = memo.GetOrAdd(
                 new RateFileKey(fullPath, string.Join('\n', _grid.Labels), rules),
-                () => RateCsvReader.Read(display, fullPath, csv.ContentSpan, _states, rules));
-            return (entries, csv.ContentSpan);
+                () => RateCsvReader.Read(display, fullPath, span, _states, rules));
+            return (entries, span);
+        }
+
+        /// <summary>The file named by <c>csv</c> in <paramref name="section"/>: as shown (relative to the deck's folder), its full path, and the span of the value.</summary>
+        private (string Display, string FullPath, SourceSpan Span) CsvPath(DeckSection section, string what, string noun, string example)
+        {
+            var csv = section.RequireString("csv", what);
+            var given = (string)csv.Value;
+            if (given.Trim().Length == 0)
+            {
+                throw new DeckException(csv.ContentSpan, $"`{section.Qualified("csv")}` is empty; name the {noun}, like \"{example}\"");
+            }
+
+            if (given.Contains('\0', StringComparison.Ordinal))
+            {
+                throw new DeckException(csv.ContentSpan, $"`{section.Qualified("csv")}` contains a NUL character (\\u0000); write the file name without it");
+            }
+
+            var display = Path.IsPathRooted(given) ? given : Path.Combine(baseDirectory, given);
+            return (display, Path.GetFullPath(display), csv.ContentSpan);
+        }
+
+        /// <summary>[initial] csv: populations per state from a file, read once for every deck derived from this one.</summary>
+        private InitialGiven ReadInitialCsv(DeckSection initial)
+        {
+            var (display, fullPath, span) = CsvPath(initial, "the file of initial populations, columns state,population", "initial population file", "initial.csv");
+            var populations = memo.GetOrAdd(
+                new InitialFileKey(fullPath, string.Join('\n', _grid.Labels)),
+                () => InitialCsvReader.Read(display, fullPath, span, _states));
+            return new InitialGiven(new PerStateValues((double[])populations.Clone(), span));
         }
 
         /// <summary>[losses] or [pumping]: optional, per time unit, never negative.</summary>
@@ -469,6 +487,8 @@ public static partial class DeckReader
                     return new InitialGiven(Values(initial, "values", (value, n) => NonNegative(value, n, "initial.values")));
                 case "expression":
                     return new InitialGiven(Expression(initial, "expression"));
+                case "csv":
+                    return ReadInitialCsv(initial);
                 case "equilibrium":
                     var flag = initial.Entry("equilibrium")!.Value;
                     return DeckSection.AsBool(flag, "initial.equilibrium")
@@ -476,7 +496,7 @@ public static partial class DeckReader
                         : throw new DeckException(flag.Span, "`initial.equilibrium = false` chooses nothing; give state, values or expression instead");
                 default:
                     return initial.Exists
-                        ? throw NoChoice(initial, "state, values, expression or equilibrium = true")
+                        ? throw NoChoice(initial, "state, values, expression, csv or equilibrium = true")
                         : new InitialEquilibrium(_deckSpan);
             }
         }

@@ -22,7 +22,7 @@ internal static class DeckSchema
         ["transfer"] = ["kind", "direction", "csv", "kernel", "band"],
         ["losses"] = ["values", "expression", "by_state"],
         ["pumping"] = ["values", "expression", "by_state"],
-        ["initial"] = ["state", "values", "expression", "equilibrium"],
+        ["initial"] = ["state", "values", "expression", "equilibrium", "csv"],
         ["run"] = ["t_end", "outputs", "spacing", "t_first", "explicit", "dt", "safety", "accuracy", "times", "plot_states"],
         ["mechanics"] = ["lagrangian", "planck"],
         ["plot"] = ["time_axis", "state_axis"],
@@ -41,7 +41,7 @@ internal static class DeckSchema
         ["weights"] = ["values", "expression", "isotropic_dimension", "from_mechanics"],
         ["losses"] = ["values", "expression", "by_state"],
         ["pumping"] = ["values", "expression", "by_state"],
-        ["initial"] = ["state", "values", "expression", "equilibrium"],
+        ["initial"] = ["state", "values", "expression", "equilibrium", "csv"],
     };
 
     /// <summary>Every name allowed at the top level.</summary>

@@ -17,6 +17,26 @@ internal static class Overrides
         }
     }
 
+    /// <summary>
+    /// Checks that <paramref name="key"/> names a value an override may set in the deck of
+    /// <paramref name="root"/> (a deck key or one of its parameters), without changing anything.
+    /// </summary>
+    public static void CheckKey(TomlTableNode root, string key, SourceSpan origin)
+    {
+        var path = key.Split('.');
+        if (path.Any(p => p.Length == 0))
+        {
+            throw new DeckException(origin, $"`{key}` is not a key; write names joined by dots, like temperature.kT");
+        }
+
+        if (path.Length == 1 && DeckSchema.Tables.ContainsKey(key))
+        {
+            throw new DeckException(origin, $"`{key}` is a table; set one of its keys, like {key}.{FirstKey(key)}=...");
+        }
+
+        Target(root, path, origin, create: false);
+    }
+
     private static void ApplyOne(TomlTableNode root, DeckOverride change)
     {
         var origin = change.Origin;

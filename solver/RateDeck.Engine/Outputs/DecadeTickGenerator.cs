@@ -8,7 +8,7 @@ namespace RateDeck.Outputs;
 /// Ticks for an axis that shows log10 of the data (ScottPlot 5 draws log axes that way): major
 /// ticks at whole decades labelled 10ⁿ, thinned to every 2nd, 5th, 10th... decade when they would
 /// crowd; minor ticks at 2..9 times each decade when there is room, otherwise at the unlabelled
-/// decades. When the view holds fewer than two whole decades the ticks fall on every digit times a
+/// decades. When the view spans less than two decades the ticks fall on every digit times a
 /// power of ten instead, labelled where they fit, else only 1, 2 and 5.
 /// </summary>
 internal sealed class DecadeTickGenerator : ITickGenerator
@@ -37,7 +37,7 @@ internal sealed class DecadeTickGenerator : ITickGenerator
         var sample = new[] { DecadeLabel(first), DecadeLabel(last) }.Select(label => labelStyle.Measure(label, paint)).ToArray();
         var labelExtent = edge.IsVertical() ? sample.Max(m => m.Height) : sample.Max(m => m.Width);
         var maxLabels = Math.Max(2, (int)(size.Length / (labelExtent * (edge.IsVertical() ? 2.2 : 1.6))));
-        var ticks = last - first >= 1
+        var ticks = high - low >= 2
             ? DecadeTicks(low, high, first, last, maxLabels, size.Length / (high - low))
             : DigitTicks(low, high, maxLabels);
         Ticks = ticks.Take(MaxTickCount).ToArray();

@@ -34,6 +34,10 @@ public static class JsonSummary
     public static string Serialize<T>(T value, bool indented = false) =>
         JsonSerializer.Serialize(value, indented ? _indented : _compact);
 
+    /// <summary>Reads JSON written by <see cref="Serialize"/> back into <typeparamref name="T"/>.</summary>
+    /// <exception cref="JsonException">The text is not JSON of that shape.</exception>
+    public static T? Deserialize<T>(string json) => JsonSerializer.Deserialize<T>(json, _compact);
+
     private static JsonSerializerOptions CreateOptions(bool indented)
     {
         var options = new JsonSerializerOptions

@@ -51,6 +51,13 @@ public sealed record OutputHeader(string ToolVersion, string DeckPath, string De
         {
             writer.WriteLine(line);
         }
+
+        WriteNotes(writer, notes);
+    }
+
+    /// <summary>Writes one <c># key: value</c> line per entry of <paramref name="notes"/>, each on one line.</summary>
+    internal static void WriteNotes(TextWriter writer, IEnumerable<KeyValuePair<string, string>> notes)
+    {
         foreach (var (key, value) in notes)
         {
             writer.WriteLine($"{CommentChar} {key}: {OneLine(value)}");

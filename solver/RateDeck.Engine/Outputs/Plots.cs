@@ -159,7 +159,8 @@ public static class Plots
 
     /// <summary>
     /// The spectrum against the explicit methods' stability at step <paramref name="dt"/>: for each
-    /// mode (sorted by |lambda|) the point |lambda dt|, beside the ends of the stability intervals
+    /// mode (sorted by |lambda|) the point |lambda dt|, on a logarithmic axis unless
+    /// <see cref="PlotOptions.YScale"/> says linear (or every mode is zero), beside the ends of the stability intervals
     /// on the negative real axis, lambda dt in [-2, 0] for forward Euler and in
     /// [-<see cref="StepLimits.Rk4RealAxisLimit"/>, 0] for classical RK4, drawn as horizontal
     /// lines. A mode is stable for a method when |R(lambda dt)| &lt;= 1 with R its amplification
@@ -190,7 +191,10 @@ public static class Plots
         var size = z.Length <= 200 ? MarkerSize : 5;
         var heights = z.Select(Complex.Abs).ToArray();
         var x = PlotAxis.ForGrid(options.XScale, modes);
-        var y = PlotAxis.ForMagnitudes(options.YScale, heights.Concat([2.0, StepLimits.Rk4RealAxisLimit]));
+        // Logarithmic unless asked otherwise: what matters is each mode's ratio to the interval's end,
+        // and a linear axis would squash the slow modes onto zero.
+        var y = PlotAxis.ForMagnitudes(options.YScale == AxisScale.Auto && heights.Any(h => h > 0) ? AxisScale.Log : options.YScale,
+            heights.Concat([2.0, StepLimits.Rk4RealAxisLimit]));
         var layers = new List<PlotLayer>();
         var legend = new List<LegendEntry>();
         var groups = new (string Label, Func<Complex, bool> Include, Color Color, MarkerShape Shape)[]

@@ -218,6 +218,59 @@ public static class ResultCsv
         });
     }
 
+    /// <summary>
+    /// A table of text cells (numbers already formatted by <see cref="CsvNumber"/>): the provenance
+    /// header when <paramref name="header"/> is given, the <paramref name="notes"/>, the column
+    /// names, then one line per row. Cells are quoted where CSV needs it (a comma, a quote, a line break).
+    /// </summary>
+    public static void WriteRecords(string path, OutputHeader? header, IEnumerable<KeyValuePair<string, string>> notes,
+        IReadOnlyList<string> columnNames, IReadOnlyList<IReadOnlyList<string>> rows)
+    {
+        ArgumentNullException.ThrowIfNull(columnNames);
+        ArgumentNullException.ThrowIfNull(rows);
+        if (rows.FirstOrDefault(r => r.Count != columnNames.Count) is { } uneven)
+        {
+            throw new ArgumentException($"A row has {uneven.Count} cells where {columnNames.Count} are expected.", nameof(rows));
+        }
+
+        WriteTable(path, header, notes, [.. columnNames], rows.Count, (k, row) =>
+        {
+            foreach (var cell in rows[k])
+            {
+                row.WriteField(cell);
+            }
+        });
+    }
+
+    /// <summary>
+    /// Reads a file written by <see cref="WriteRecords"/> (or any result CSV): the <c># key: value</c>
+    /// comment lines in order, the column names and the rows of text cells.
+    /// </summary>
+    /// <exception cref="IOException">The file cannot be read.</exception>
+    /// <exception cref="CsvFormatException">The file is not CSV.</exception>
+    public static CsvRecords ReadRecords(string path)
+    {
+        var bytes = File.ReadAllBytes(path);
+        var notes = new List<KeyValuePair<string, string>>();
+        foreach (var line in AtomicFile.TextEncoding.GetString(bytes).Split('\n').TakeWhile(l => l.StartsWith(OutputHeader.CommentChar)))
+        {
+            var colon = line.IndexOf(": ", StringComparison.Ordinal);
+            if (colon > 2)
+            {
+                notes.Add(KeyValuePair.Create(line[2..colon], line[(colon + 2)..]));
+            }
+        }
+
+        using var reader = CsvReader.Create(bytes, new CsvReaderOptions { HasHeader = false, CommentPrefix = OutputHeader.CommentChar, FormatProvider = CultureInfo.InvariantCulture });
+        var rows = new List<string[]>();
+        while (reader.Read())
+        {
+            rows.Add([.. Enumerable.Range(0, reader.FieldCount).Select(k => reader.GetString(k))]);
+        }
+
+        return rows.Count == 0 ? new CsvRecords(notes, [], []) : new CsvRecords(notes, rows[0], rows.Skip(1).ToArray());
+    }
+
     private static double RelaxationTime(double rate, double zeroTolerance) =>
         Math.Abs(rate) <= zeroTolerance ? double.PositiveInfinity : 1.0 / Math.Abs(rate);
 
@@ -250,13 +303,20 @@ public static class ResultCsv
         });
     }
 
-    private static void WriteTable(string path, OutputHeader header, IEnumerable<KeyValuePair<string, string>> notes,
+    private static void WriteTable(string path, OutputHeader? header, IEnumerable<KeyValuePair<string, string>> notes,
         string[] columnNames, int rowCount, Action<int, CsvWriter> writeRow)
     {
-        ArgumentNullException.ThrowIfNull(header);
         AtomicFile.Write(path, writer =>
         {
-            header.WriteTo(writer, notes);
+            if (header is null)
+            {
+                OutputHeader.WriteNotes(writer, notes);
+            }
+            else
+            {
+                header.WriteTo(writer, notes);
+            }
+
             using var csv = CsvWriter.Create(writer, _writerOptions, leaveOpen: true);
             csv.WriteRecord(columnNames);
             for (var row = 0; row < rowCount; row++)
@@ -267,4 +327,14 @@ public static class ResultCsv
             csv.Flush();
         });
     }
+}
+
+/// <summary>What <see cref="ResultCsv.ReadRecords"/> read: the comment notes, the column names and the rows of text cells.</summary>
+/// <param name="Notes">The <c># key: value</c> lines at the top, in order (the provenance lines included).</param>
+/// <param name="Columns">The column names; empty for an empty file.</param>
+/// <param name="Rows">The data rows.</param>
+public sealed record CsvRecords(IReadOnlyList<KeyValuePair<string, string>> Notes, IReadOnlyList<string> Columns, IReadOnlyList<string[]> Rows)
+{
+    /// <summary>The value of the note <paramref name="key"/>, or null.</summary>
+    public string? Note(string key) => Notes.FirstOrDefault(n => n.Key == key).Value;
 }

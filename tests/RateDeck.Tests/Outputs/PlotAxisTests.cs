@@ -51,6 +51,22 @@ public sealed class PlotAxisTests
     }
 
     [Fact]
+    public void LessThanTwoDecades_GetLabelledTicksBetweenTheDecades()
+    {
+        // A colour bar from 0.03 to 1 holds two whole decades but too little room for decade ticks alone.
+        var ticks = new DecadeTickGenerator();
+        using var paint = Paint.NewDisposablePaint();
+
+        ticks.Regenerate(new CoordinateRange(Math.Log10(0.03), 0), Edge.Right, new PixelLength(600), paint, new LabelStyle { FontSize = 14 });
+
+        var labels = ticks.Ticks.Where(t => t.IsMajor).Select(t => t.Label).ToArray();
+        Assert.Contains("0.05", labels);
+        Assert.Contains("0.2", labels);
+        Assert.Contains("0.5", labels);
+        Assert.Contains("1", labels);
+    }
+
+    [Fact]
     public void DecadeTicks_ThinLabelsOverManyDecades()
     {
         var ticks = new DecadeTickGenerator();
