@@ -109,7 +109,16 @@ public static class Fitter
         }
 
         best = runs.Where(r => r.Converged).OrderBy(r => r.Rss).FirstOrDefault() ?? runs.OrderBy(r => r.Rss).First();
-        var report = Build(problem, best, runs, spec.Starts);
+        var report = Build(problem, best, runs, spec.Starts, out var covariance);
+        if (spec.Profile && best.Converged)
+        {
+            report = WithProfiles(report, problem, best, covariance, spec);
+        }
+        else if (spec.Profile)
+        {
+            report = report with { Warnings = [.. report.Warnings, "no profile-likelihood intervals: the fit did not converge, so there is no minimum to profile from"] };
+        }
+
         return new FitOutcome(spec, deck, problem, report);
     }
 
@@ -147,7 +156,32 @@ public static class Fitter
         }
     }
 
-    private static FitReport Build(FitProblem problem, LeastSquaresResult best, List<LeastSquaresResult> runs, int startsAsked)
+    /// <summary>The report with each parameter's profile-likelihood interval at <see cref="FitSpec.ProfileLevel"/> (docs/fitting.md).</summary>
+    private static FitReport WithProfiles(FitReport report, FitProblem problem, LeastSquaresResult best, Covariance covariance, FitSpec spec)
+    {
+        var (threshold, quantile, rule) = ProfileLikelihood.Threshold(problem, best.Rss, report.Dof, spec.ProfileLevel);
+        var intervals = ProfileLikelihood.Intervals(problem, best, covariance.Matrix, threshold, quantile, spec.MaxIterations);
+        var warnings = report.Warnings.ToList();
+        var parameters = report.Parameters.Select((p, j) =>
+        {
+            if (intervals[j] is not var (lower, upper))
+            {
+                warnings.Add($"no profile-likelihood interval for {p.Name}: {(double.IsNaN(p.StandardError) ? "the data do not determine it" : "its profile could not be followed (a re-fit with it held failed)")}");
+                return p;
+            }
+
+            var open = string.Join(",", new[] { lower.AtBound ? "lower" : null, upper.AtBound ? "upper" : null }.OfType<string>());
+            if (open.Length > 0)
+            {
+                warnings.Add($"the profile interval of {p.Name} reaches its {open} bound: the data do not close it there");
+            }
+
+            return p with { ProfileLower = lower.Value, ProfileUpper = upper.Value, ProfileOpen = open.Length > 0 ? open : null };
+        }).ToList();
+        return report with { Parameters = parameters, ProfileRule = string.Create(CultureInfo.InvariantCulture, $"{spec.ProfileLevel:G4} level: {rule}"), Warnings = warnings, TrajectoryEvaluations = problem.TrajectoryEvaluations };
+    }
+
+    private static FitReport Build(FitProblem problem, LeastSquaresResult best, List<LeastSquaresResult> runs, int startsAsked, out Covariance covariance)
     {
         var parameters = problem.Parameters;
         var values = problem.Values(best.U);
@@ -165,7 +199,7 @@ public static class Fitter
 
         var dof = m - p;
         var variance = best.Rss / dof;
-        var covariance = new Covariance(jacobian, problem.HasStandardDeviations ? 1.0 : variance);
+        covariance = new Covariance(jacobian, problem.HasStandardDeviations ? 1.0 : variance);
         var correlation = covariance.Correlation();
         var warnings = new List<string>();
         var estimates = new List<ParameterEstimate>();

@@ -10,7 +10,8 @@ namespace RateDeck.Fitting.Report;
 /// <param name="Bound">"lower" or "upper" when the estimate sits on a bound, else null.</param>
 /// <param name="ProfileLower">Lower end of the profile-likelihood interval, when asked for.</param>
 /// <param name="ProfileUpper">Upper end of the profile-likelihood interval, when asked for.</param>
-public sealed record ParameterEstimate(string Name, double Value, double StandardError, double Start, string? Bound, double? ProfileLower = null, double? ProfileUpper = null);
+/// <param name="ProfileOpen">The ends ("lower", "upper" or both, comma-separated) where the profile stays below the threshold up to the parameter's bound; null when none.</param>
+public sealed record ParameterEstimate(string Name, double Value, double StandardError, double Start, string? Bound, double? ProfileLower = null, double? ProfileUpper = null, string? ProfileOpen = null);
 
 /// <summary>
 /// What a fit reports (SPEC 4): estimates with standard errors, correlations, RSS, residual
@@ -59,6 +60,9 @@ public sealed record FitReport
 
     /// <summary>Exact trajectories computed over every start (trials and differences; an analytic Jacobian reuses the trial's).</summary>
     public required int TrajectoryEvaluations { get; init; }
+
+    /// <summary>The rule of the profile-likelihood intervals (level and RSS threshold), or null when they were not asked for.</summary>
+    public string? ProfileRule { get; init; }
 
     /// <summary>True when the best run converged.</summary>
     public bool Converged => Best.Converged;

@@ -15,6 +15,7 @@ namespace RateDeck.Fitting.Setup;
 /// <param name="Profile">Whether profile-likelihood intervals are computed.</param>
 /// <param name="Triangle">Measured-triangle mode: every measured one-way rate is free too.</param>
 /// <param name="Derivatives">How the Jacobian is formed.</param>
+/// <param name="ProfileLevel">Confidence level of the profile-likelihood intervals (0 to 1).</param>
 public sealed record FitSpec(
     IReadOnlyList<FreeParameterSpec> Free,
     IReadOnlyList<ObservableSpec> Observables,
@@ -24,7 +25,12 @@ public sealed record FitSpec(
     int MaxIterations,
     bool Profile,
     bool Triangle,
-    DerivativeMode Derivatives = DerivativeMode.Auto);
+    DerivativeMode Derivatives = DerivativeMode.Auto,
+    double ProfileLevel = FitSpec.DefaultProfileLevel)
+{
+    /// <summary>The default level of profile-likelihood intervals.</summary>
+    public const double DefaultProfileLevel = 0.95;
+}
 
 /// <summary>How the fitter forms the Jacobian (<c>fit.derivatives</c>).</summary>
 public enum DerivativeMode

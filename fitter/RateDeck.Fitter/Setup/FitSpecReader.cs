@@ -52,9 +52,10 @@ public static class FitSpecReader
         }
 
         var seed = fit.Integer("seed") ?? 1;
-        if (fit.Bool("profile") == true)
+        var profileLevel = fit.Number("profile_level") ?? FitSpec.DefaultProfileLevel;
+        if (!(profileLevel > 0 && profileLevel < 1))
         {
-            throw new DeckException(fit.Entry("profile")!.Value.Span, "profile-likelihood intervals are not available yet; remove `profile = true` (the report gives the linearised standard errors)");
+            throw new DeckException(fit.Entry("profile_level")!.Value.Span, $"`fit.profile_level` is {DeckSection.Format(profileLevel)}; give a confidence level between 0 and 1, like 0.95");
         }
 
         var derivatives = fit.String("derivatives") switch
@@ -73,7 +74,7 @@ public static class FitSpecReader
 
         var baseDirectory = Path.GetDirectoryName(path) ?? "";
         var data = ReadData(Table(fit, "data"), baseDirectory, fit.Span);
-        return new FitSpec(free, ReadObservables(Table(fit, "observables")), data, (int)starts, (int)seed, (int)maxIterations, fit.Bool("profile") ?? false, triangle, derivatives);
+        return new FitSpec(free, ReadObservables(Table(fit, "observables")), data, (int)starts, (int)seed, (int)maxIterations, fit.Bool("profile") ?? false, triangle, derivatives, profileLevel);
     }
 
     private static DeckSection Table(DeckSection fit, string key)

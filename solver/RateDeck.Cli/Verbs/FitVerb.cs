@@ -98,6 +98,7 @@ public sealed class FitVerb : IVerb
                 ["at_bound"] = p.Bound,
                 ["profile_lower"] = p.ProfileLower,
                 ["profile_upper"] = p.ProfileUpper,
+                ["profile_open"] = p.ProfileOpen,
             }),
             ["rss"] = report.Rss,
             ["residual_sd"] = report.ResidualSd,
@@ -108,6 +109,7 @@ public sealed class FitVerb : IVerb
             ["jacobian_evaluations"] = report.Best.JacobianEvaluations,
             ["trajectory_evaluations"] = report.TrajectoryEvaluations,
             ["derivatives"] = report.Derivatives,
+            ["profile_rule"] = report.ProfileRule,
             ["infeasible_trials"] = report.Best.InfeasibleTrials,
             ["starts"] = report.Starts.Run,
             ["starts_converged"] = report.Starts.Converged,
@@ -165,7 +167,7 @@ public sealed class FitVerb : IVerb
         output.WriteLine($"  {"parameter".PadRight(width)}  {"estimate",-22} {"std error",-12} {"start",-12}{(report.Parameters.Any(p => p.ProfileLower is not null) ? " profile interval" : "")}");
         foreach (var p in report.Parameters)
         {
-            var interval = p.ProfileLower is { } lo && p.ProfileUpper is { } hi ? $" [{Format.Number(lo)}, {Format.Number(hi)}]" : "";
+            var interval = p.ProfileLower is { } lo && p.ProfileUpper is { } hi ? string.Create(CultureInfo.InvariantCulture, $" [{lo:G8}, {hi:G8}]") : "";
             var bound = p.Bound is null ? "" : $" (at {p.Bound} bound)";
             output.WriteLine($"  {p.Name.PadRight(width)}  {p.Value.ToString("R", CultureInfo.InvariantCulture),-22} {(double.IsNaN(p.StandardError) ? "not determined" : Format.Number(p.StandardError)),-12} {Format.Number(p.Start),-12}{interval}{bound}");
         }
@@ -173,6 +175,10 @@ public sealed class FitVerb : IVerb
         output.WriteLine();
         output.WriteLine($"  RSS {Format.Number(report.Rss)}, residual sd {Format.Number(report.ResidualSd)}, dof {report.Dof} ({report.Observations} values - {report.Parameters.Count} parameters)");
         output.WriteLine($"  standard errors from {report.ErrorSource}");
+        if (report.ProfileRule is { } profileRule)
+        {
+            output.WriteLine($"  profile intervals at {profileRule}");
+        }
         output.WriteLine($"  scaled singular values of the Jacobian: {string.Join(", ", report.ScaledSingularValues.Select(Format.Number))}");
         foreach (var warning in report.Warnings)
         {

@@ -79,7 +79,9 @@ public sealed class SteadyVerb : IVerb
             return;
         }
 
-        output.WriteLine($"  residual |K P + s| = {Format.Rate(steady.Residual ?? double.NaN, loaded.Deck.TimeUnit)}, approach time {Format.Time(steady.ApproachTime, loaded.Deck.TimeUnit)}, total population {Format.Number(populations.Sum())}");
+        // Without a decaying mode the approach time is infinite; the line above says why in words.
+        var approach = double.IsFinite(steady.ApproachTime) ? $", approach time {Format.Time(steady.ApproachTime, loaded.Deck.TimeUnit)}" : "";
+        output.WriteLine($"  residual |K P + s| = {Format.Rate(steady.Residual ?? double.NaN, loaded.Deck.TimeUnit)}{approach}, total population {Format.Number(populations.Sum())}");
         output.WriteLine();
         var labels = loaded.States.Labels;
         var shown = labels.Length <= _listedStates ? Enumerable.Range(0, labels.Length) : Enumerable.Range(0, labels.Length).OrderByDescending(i => populations[i]).Take(_listedStates).Order();

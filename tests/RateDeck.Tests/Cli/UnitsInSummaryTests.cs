@@ -85,6 +85,20 @@ public sealed class UnitsInSummaryTests
         Assert.Equal(1 / _relaxationRate, Number(approach), 0.005 / _relaxationRate);
     }
 
+    [Fact]
+    public void Steady_WithoutADecayingMode_SaysSoInsteadOfAnInfiniteApproachTime()
+    {
+        // One state and no rate: nothing relaxes, so there is no approach time to print (common practice).
+        using var folder = new TempFolder();
+        File.WriteAllText(folder.File("one.toml"), "format = 1\n[units]\ntime = \"ms\"\n[temperature]\nkT = 1\n[states]\ncoordinates = [1.0]\n"
+            + "[energies]\nvalues = [0.0]\n[transfer]\nkind = \"kernel\"\ndirection = \"toward_smaller\"\nkernel = \"1\"\n[run]\nt_end = 1\n");
+        var (code, output, error) = CliRunner.Run("steady", folder.File("one.toml"), "--out", folder.Path);
+
+        Assert.True(code == ExitCodes.Success, error);
+        Assert.Contains("approach time none (no mode decays)", output, StringComparison.Ordinal);
+        Assert.DoesNotContain("Infinity", output, StringComparison.Ordinal);
+    }
+
     [Theory]
     [InlineData("check")]
     [InlineData("stiffness")]

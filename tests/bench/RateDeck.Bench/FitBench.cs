@@ -1,3 +1,4 @@
+using System.Diagnostics;
 using System.Globalization;
 using RateDeck.Fitting;
 using RateDeck.LinearAlgebra;
@@ -11,7 +12,9 @@ namespace RateDeck.Bench;
 /// from a start a factor 2 off (kT = 2), and NIST StRD Lanczos3 from NIST's start 1. Each fit is
 /// timed with the derivatives the fitter chooses (analytic where they apply) and with central
 /// differences forced (<c>derivatives = "differences"</c>); the counts of trajectory evaluations
-/// (exact propagations) and of Jacobians are printed beside the times. Targets: 0.1 s each.
+/// (exact propagations) and of Jacobians are printed beside the times, and the processor time per
+/// fit (over the warm-ups too; run with OPENBLAS_NUM_THREADS=1 so that idle BLAS threads add none),
+/// which a loaded machine inflates less than the wall time. Targets: 0.1 s each.
 /// </summary>
 internal static class FitBench
 {
@@ -21,7 +24,7 @@ internal static class FitBench
     {
         var algebra = LinearAlgebraProviders.Select(null, out var algebraReason);
         output.WriteLine($"whole fits in process; linear algebra: {algebraReason}");
-        output.WriteLine("fit                         derivatives   time, median (min .. max) ms     iterations  jacobians  trajectories  converged");
+        output.WriteLine("fit                         derivatives   wall ms, median (min .. max)   cpu ms/fit  iterations  jacobians  trajectories  converged");
         var folder = Directory.CreateTempSubdirectory("ratedeck-fitbench-");
         try
         {
@@ -33,11 +36,18 @@ internal static class FitBench
                 {
                     string[] overrides = [$"fit.derivatives={mode}"];
                     FitOutcome? last = null;
-                    var seconds = Timing.Measure([() => last = Fitter.Fit(deck, overrides, algebra, new FitOptions())], warmups: 5, runs)[0];
+                    var cpu = TimeSpan.Zero;
+                    var seconds = Timing.Measure([() =>
+                    {
+                        var before = Process.GetCurrentProcess().TotalProcessorTime;
+                        last = Fitter.Fit(deck, overrides, algebra, new FitOptions());
+                        cpu += Process.GetCurrentProcess().TotalProcessorTime - before;
+                    }], warmups: 5, runs)[0];
+                    var cpuPerFit = cpu.TotalMilliseconds / (runs + 5);
                     var report = last!.Report;
                     output.WriteLine(string.Create(
                         CultureInfo.InvariantCulture,
-                        $"{name,-27} {mode,-13} {Timing.Median(seconds) * 1e3,8:F1} ({seconds.Min() * 1e3:F1} .. {seconds.Max() * 1e3:F1}){"",6} {report.Best.Iterations,10}  {report.Best.JacobianEvaluations,9}  {last.Problem.TrajectoryEvaluations,12}  {report.Converged} {report.Best.Stop} rss {report.Rss:G3} ({string.Join(", ", report.Parameters.Select(p => $"{p.Name} = {p.Value:G10}"))})"));
+                        $"{name,-27} {mode,-13} {Timing.Median(seconds) * 1e3,8:F1} ({seconds.Min() * 1e3:F1} .. {seconds.Max() * 1e3:F1}){"",4} {cpuPerFit,10:F1} {report.Best.Iterations,10}  {report.Best.JacobianEvaluations,9}  {last.Problem.TrajectoryEvaluations,12}  {report.Converged} {report.Best.Stop} rss {report.Rss:G3} ({string.Join(", ", report.Parameters.Select(p => $"{p.Name} = {p.Value:G10}"))})"));
                 }
             }
         }
