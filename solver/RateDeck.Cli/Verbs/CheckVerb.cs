@@ -83,6 +83,10 @@ public sealed class CheckVerb : IVerb
         if (report.Spectrum is { } spectrum)
         {
             output.WriteLine($"spectrum     {spectrum.PathReason}");
+            if (spectrum.SlowModeLine is { } slowModes)
+            {
+                output.WriteLine($"slow modes   {slowModes}");
+            }
         }
 
         output.WriteLine();

@@ -33,7 +33,7 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder, DeckRun run)
             WriteFile("differences.csv", path => ResultCsv.WriteDifferences(path, _header, labels, exact, explicitResult, deck.TimeUnit));
         }
 
-        WriteFile("spectrum.csv", path => ResultCsv.WriteSpectrum(path, _header, spectrum.Values, deck.TimeUnit, spectrum.ZeroTolerance));
+        WriteFile("spectrum.csv", path => ResultCsv.WriteSpectrum(path, _header, spectrum.ReportedValues, deck.TimeUnit, spectrum.ReportedZeroTolerance, spectrum.ReportedValuesNote));
         if (steady.Populations is { } steadyPopulations)
         {
             WriteFile("steady-state.csv", path => ResultCsv.WriteSteadyState(path, _header, labels, loaded.States.Coordinates, steadyPopulations, loaded.States.LogEquilibrium));

@@ -46,8 +46,12 @@ public sealed class StiffnessVerb : IVerb
             var fields = VerbSupport.JsonFields(loaded);
             fields["spectral_radius"] = report.SpectralRadius;
             fields["slowest_rate"] = report.SlowestRate;
-            fields["slow_modes_resolved"] = spectrum.IsResolved;
+            fields["slow_modes_resolved"] = spectrum.IsResolved || spectrum.SlowModes?.Converged == true;
             fields["slow_modes_unresolved_reason"] = spectrum.Unresolved;
+            fields["slow_modes_path"] = spectrum.SlowModes?.Description;
+            fields["slow_modes_failure"] = spectrum.SlowModes?.Failure;
+            fields["slow_rates"] = spectrum.SlowModes?.Modes.Select(m => m.Rate.Real).ToArray();
+            fields["slow_rate_error_bounds"] = spectrum.SlowModes?.Modes.Select(m => m.ErrorBound).ToArray();
             fields["eigenvalue_absolute_accuracy"] = spectrum.AbsoluteAccuracy;
             fields["stiffness_ratio"] = report.StiffnessRatio;
             fields["max_diagonal_rate"] = report.MaxDiagonalRate;
@@ -91,12 +95,17 @@ public sealed class StiffnessVerb : IVerb
         output.WriteLine($"spectrum     {spectrum.PathReason}");
         output.WriteLine();
         output.WriteLine($"  spectral radius rho      {Format.Rate(report.SpectralRadius, unit)}");
-        output.WriteLine($"  slowest non-zero rate    {(spectrum.IsResolved || report.SlowestRate is not null ? OptionalRate(report.SlowestRate, unit) : $"not resolved (below about {Format.Rate(spectrum.AbsoluteAccuracy, unit)})")}");
+        output.WriteLine($"  slowest non-zero rate    {(spectrum.IsResolved || report.SlowestRate is not null ? OptionalRate(report.SlowestRate, unit) : "not resolved")}");
         output.WriteLine($"  stiffness ratio          {Optional(report.StiffnessRatio)}");
         output.WriteLine($"  max |K_ii|               {Format.Rate(report.MaxDiagonalRate, unit)}");
-        if (spectrum.Unresolved is { } unresolved)
+        if (spectrum.SlowModeLine is { } slowModes)
         {
-            output.WriteLine($"  NOT RESOLVED             {unresolved}; the slow rates above are not to be trusted (run takes an accurate path and names it on its exact line)");
+            output.WriteLine($"  slow modes               {slowModes}");
+        }
+
+        if (spectrum.SlowModes is { Converged: false })
+        {
+            output.WriteLine($"  NOT RESOLVED             {spectrum.Unresolved}; the slowest rate is not given (run takes an accurate path and names it on its exact line)");
         }
         output.WriteLine();
         var horizon = report.Horizon is { } h ? $"steps to t = {Format.Time(h, unit)}{(report.HorizonIsEndTime ? "" : " (1/slowest rate)")}" : "steps";

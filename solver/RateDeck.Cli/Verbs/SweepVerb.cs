@@ -16,6 +16,9 @@ namespace RateDeck.Cli.Verbs;
 /// </summary>
 public sealed class SweepVerb : IVerb
 {
+    // Enough failing points on stderr to see the pattern; the table has them all.
+    private const int _problemsShown = 10;
+
     private readonly Option<string[]> _vary = VerbOptions.Repeated("--vary", "KEY=START:STOP:COUNT[:log]", "vary a deck key (as --set names it) over COUNT values from START to STOP, evenly spaced or geometric (:log); repeatable: the points are every combination");
     private readonly Option<bool> _zip = VerbOptions.Switch("--zip", "walk the --vary axes together (equal counts) instead of taking every combination");
     private readonly Option<int?> _jobs = VerbOptions.WholeNumber("--jobs", "N", "points run at once in this process (default: the number of processors)", 1);
@@ -145,6 +148,16 @@ public sealed class SweepVerb : IVerb
         }
 
         context.Error.WriteLine($"ratedeck: {tally.Failed + tally.Missing} of {manifest.Points.Count} points have no results; their rows in {folder.SummaryPath} say why (status and message columns)");
+        foreach (var problem in tally.Problems.Take(_problemsShown))
+        {
+            context.Error.WriteLine("  " + problem);
+        }
+
+        if (tally.Problems.Count > _problemsShown)
+        {
+            context.Error.WriteLine($"  ... and {tally.Problems.Count - _problemsShown} more");
+        }
+
         return ExitCodes.PointsFailed;
     }
 }

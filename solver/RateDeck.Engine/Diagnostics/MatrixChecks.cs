@@ -84,7 +84,7 @@ public static class MatrixChecks
             checks.Add(new("decaying modes", spectrum.NonDecayingCount == 0, spectrum.NonDecayingCount == 0
                 ? "every non-zero mode decays"
                 : $"{Format.Count(spectrum.NonDecayingCount, "non-zero eigenvalue has", "non-zero eigenvalues have")} real part >= -{Format.Rate(spectrum.ZeroTolerance, rates.TimeUnit)}: those modes oscillate or grow"));
-            if (spectrum.SlowestRate is { } slowest)
+            if (spectrum.SolverSlowestRate is { } slowest)
             {
                 equilibriumTolerance = Math.Max(EquilibriumToleranceFloor, spectrum.ZeroTolerance / slowest);
             }

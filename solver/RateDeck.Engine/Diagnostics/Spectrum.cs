@@ -57,12 +57,16 @@ public sealed class Spectrum
     private const int _inverseIterations = 8;
 
     private readonly double[] _logEquilibrium;
+    private readonly RateMatrix _rates;
+    private readonly double? _solverSlowest;
+    private SlowModeReport? _slowModes;
     private readonly double[][] _nullBasis;
     private readonly int _nullDimension;
 
     private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, double[][]? nullBasis = null, ExtendedSymmetricEigenDecomposition? extended = null)
     {
         _logEquilibrium = rates.States.LogEquilibrium;
+        _rates = rates;
         Path = path;
         PathReason = reason;
         Symmetric = symmetric;
@@ -95,8 +99,8 @@ public sealed class Spectrum
             Unresolved = $"the slowest rate {Format.Rate(rate, rates.TimeUnit)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
         }
 
-        // A slowest rate read from a spectrum that lost modes to rounding would be a faster mode's: report none.
-        SlowestRate = _nullDimension > StructuralNullDimension ? null : slowest;
+        // A slowest rate read from a spectrum that lost modes to rounding would be a faster mode's.
+        _solverSlowest = _nullDimension > StructuralNullDimension ? null : slowest;
     }
 
     /// <summary>The path taken.</summary>
@@ -154,8 +158,93 @@ public sealed class Spectrum
     /// </summary>
     public ExtendedSymmetricEigenDecomposition? Extended { get; }
 
-    /// <summary>Decay rate -Re(lambda) of the slowest decaying mode (beyond the zero tolerance); null when no mode decays, or when the spectrum counts more zeros than the structure has (the slow modes were lost).</summary>
-    public double? SlowestRate { get; }
+    /// <summary>
+    /// Decay rate of the slowest decaying mode: -Re(lambda) of the slowest mode beyond the zero
+    /// tolerance when the spectrum is resolved; else the accurate one of <see cref="SlowModes"/>.
+    /// Null when no mode decays, or when the spectrum is unresolved and the slow modes could not be
+    /// computed (a rate read from rounding is never given).
+    /// </summary>
+    public double? SlowestRate => IsResolved ? _solverSlowest : SlowModes!.SlowestRate;
+
+    /// <summary>The slowest rate as the eigen-solver gave it (null when it lost modes), whether or not it is resolved: the scale of its null vectors' perturbation.</summary>
+    internal double? SolverSlowestRate => _solverSlowest;
+
+    /// <summary>
+    /// The slowest modes computed to high relative accuracy (<see cref="Diagnostics.SlowModes"/>)
+    /// when this spectrum cannot resolve them (<see cref="Unresolved"/>); null when it can.
+    /// Computed on first use.
+    /// </summary>
+    public SlowModeReport? SlowModes => IsResolved ? null : _slowModes ??= Diagnostics.SlowModes.Compute(_rates, Path == SpectrumPath.Symmetrized);
+
+    /// <summary>
+    /// One line for the summaries on how the slow rates were obtained when the spectrum cannot
+    /// resolve them: the path and the slowest rate, or why they are not resolved; null when the
+    /// spectrum resolves them.
+    /// </summary>
+    public string? SlowModeLine => SlowModes switch
+    {
+        null => null,
+        { Converged: true, Modes.Count: > 0 } found => $"{found.Description}: slowest rate {Format.Rate(found.Modes[0].Rate.Real, _rates.TimeUnit)} (relative error bound {Format.Number(found.Modes[0].ErrorBound)}){(found.Modes.Count > 1 ? $", {Format.Count(found.Modes.Count, "slow mode", "slow modes")} to {Format.Rate(found.Modes[^1].Rate.Real, _rates.TimeUnit)}" : "")}, because in double {Unresolved}",
+        { Converged: true } => $"{SlowModes.Description}: no mode decays",
+        { Failure: var failure } => $"not resolved: {failure}; in double {Unresolved}",
+    };
+
+    /// <summary>
+    /// <see cref="Values"/> as a report may print them: when the spectrum is unresolved, the
+    /// structural null modes are exactly zero, the slowest modes next to them are those of
+    /// <see cref="SlowModes"/> (in sorted order the k slowest computed eigenvalues stand for the k
+    /// slowest true ones: each moves by at most N eps rho, Weyl's theorem for the symmetric case),
+    /// and a remaining value within <see cref="ZeroTolerance"/> of zero, which is rounding and no
+    /// rate, is NaN. Equal to <see cref="Values"/> when the spectrum is resolved.
+    /// </summary>
+    public Complex[] ReportedValues
+    {
+        get
+        {
+            if (IsResolved)
+            {
+                return Values;
+            }
+
+            var values = (Complex[])Values.Clone();
+            var n = values.Length;
+            var zeros = Math.Min(n, StructuralNullDimension);
+            var modes = SlowModes!.Converged ? SlowModes.Modes.Take(n - zeros).ToList() : [];
+            for (var i = 0; i < n; i++)
+            {
+                var fromEnd = n - 1 - i;
+                values[i] = fromEnd < zeros ? Complex.Zero
+                    : fromEnd - zeros < modes.Count ? -modes[fromEnd - zeros].Rate
+                    : Complex.Abs(values[i]) <= ZeroTolerance ? new Complex(double.NaN, double.NaN) : values[i];
+            }
+
+            return values;
+        }
+    }
+
+    /// <summary>The zero tolerance that goes with <see cref="ReportedValues"/>: <see cref="ZeroTolerance"/> when resolved, else 0 (their zeros are exact, their slow rates real ones however small).</summary>
+    public double ReportedZeroTolerance => IsResolved ? ZeroTolerance : 0;
+
+    /// <summary>What <see cref="ReportedValues"/> holds, row by row (rows numbered from 1), for a file's notes; null when the spectrum is resolved.</summary>
+    public string? ReportedValuesNote
+    {
+        get
+        {
+            if (IsResolved)
+            {
+                return null;
+            }
+
+            var n = Values.Length;
+            var zeros = Math.Min(n, StructuralNullDimension);
+            var modes = SlowModes!.Converged ? Math.Min(SlowModes.Modes.Count, n - zeros) : 0;
+            var first = n - zeros - modes;
+            var solver = $"rows 1 to {first}: the eigen-solver's values, absolute error up to N eps rho = {Format.Number(AbsoluteAccuracy)}, nan where the value is rounding (within {Format.Number(ZeroTolerance)} of zero)";
+            var slow = modes > 0 ? $"; rows {first + 1} to {n - zeros}: {SlowModes.Description} (relative error at most {Format.Number(SlowModes.Modes.Take(modes).Max(m => m.ErrorBound))})" : $"; slow modes not resolved: {SlowModes.Failure ?? "none decays"}";
+            var structural = zeros > 0 ? $"; rows {n - zeros + 1} to {n}: zero by structure ({Format.Count(zeros, "closed class", "closed classes")} without loss)" : "";
+            return $"{solver}{slow}{structural}";
+        }
+    }
 
     /// <summary>Non-zero eigenvalues whose real part is not below -<see cref="ZeroTolerance"/> (oscillating or growing modes); a sane generator has none.</summary>
     public int NonDecayingCount { get; }

@@ -77,9 +77,13 @@ public static class SteadyState
         var classes = TransitionGraph.Classify(rates);
         var approach = spectrum.SlowestRate is { } slowest ? 1 / slowest : double.PositiveInfinity;
         var unit = rates.TimeUnit;
-        var approachText = spectrum.SlowestRate is not null ? Format.Time(approach, unit)
-            : spectrum.IsResolved ? "none (no mode decays)"
-            : "unknown (the slowest rate is not resolved; see the spectrum line)";
+        var approachText = (spectrum.SlowestRate, spectrum.IsResolved) switch
+        {
+            (not null, true) => Format.Time(approach, unit),
+            (not null, false) => $"{Format.Time(approach, unit)} (1 / the slowest rate from inverse subspace iteration on the M-matrix factors; the double spectrum does not resolve it)",
+            (null, true) => "none (no mode decays)",
+            (null, false) => "unknown (the slowest rate is not resolved; see the spectrum line)",
+        };
         SteadyStateResult Fail(string message, IReadOnlyList<ClassMass> masses, double[][] absorption) =>
             new(SteadyStateKind.None, null, null, approach, masses, classes.TransientLabels, absorption, null, message);
 
@@ -193,7 +197,7 @@ public static class SteadyState
 
         double[] solution;
         var k = rates.Generator;
-        if (HasNegativeOffDiagonal(rates))
+        if (GeneratorBlock.HasNegativeOffDiagonal(rates))
         {
             var block = leaking.Length == rates.Count
                 ? k
@@ -202,53 +206,14 @@ public static class SteadyState
         }
         else
         {
-            var u = leaking.Length;
-            var position = new int[rates.Count];
-            Array.Fill(position, -1);
-            for (var a = 0; a < u; a++)
-            {
-                position[leaking[a]] = a;
-            }
-
-            var offDiagonal = new double[u * u];
-            var excess = new double[u];
-            for (var b = 0; b < u; b++)
-            {
-                var from = leaking[b];
-                excess[b] = rates.Loss[from];
-                for (var to = 0; to < rates.Count; to++)
-                {
-                    if (to == from)
-                    {
-                        continue;
-                    }
-
-                    if (position[to] >= 0)
-                    {
-                        offDiagonal[(b * u) + position[to]] = k[to, from];
-                    }
-                    else
-                    {
-                        excess[b] += k[to, from];
-                    }
-                }
-            }
-
             solution = [.. leaking.Select(i => rates.Pumping[i])];
-            MMatrixFactorization.Factor(u, offDiagonal, excess).Solve(solution);
+            GeneratorBlock.Factor(rates, leaking).Solve(solution);
         }
 
         for (var a = 0; a < leaking.Length; a++)
         {
             populations[leaking[a]] = solution[a];
         }
-    }
-
-    private static bool HasNegativeOffDiagonal(RateMatrix rates)
-    {
-        var negative = false;
-        rates.ForEachOffDiagonal((_, _, rate) => negative |= rate < 0);
-        return negative;
     }
 
     /// <summary>

@@ -92,6 +92,15 @@ public static class TransitionGraph
         return reached;
     }
 
+    /// <summary>
+    /// The strongly connected components of the graph of the stored rates alone (an edge j -&gt; i
+    /// only where K_ij &gt; 0 is stored, completed partners that underflowed left out), with whether
+    /// each is closed. In this graph's order K is exactly block triangular, so its eigenvalues are
+    /// those of the diagonal blocks (<see cref="SlowModes"/>).
+    /// </summary>
+    internal static (int[] Component, bool[] Closed) StoredComponents(RateMatrix rates) =>
+        Condense(rates.Sparse is { } sparse ? new SparseSuccessors(sparse, false) : new DenseSuccessors(rates, false));
+
     /// <summary>The successor lists of K: from the stored columns when sparse, else by scanning the dense columns.</summary>
     private static ISuccessors Successors(RateMatrix rates)
     {

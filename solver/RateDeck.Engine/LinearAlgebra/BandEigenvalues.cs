@@ -18,10 +18,19 @@ public static class BandEigenvalues
     {
         ArgumentNullException.ThrowIfNull(band);
         ArgumentNullException.ThrowIfNull(algebra);
+        var why = $"bandwidth {band.Bandwidth}: no managed band reduction";
         if (band.Bandwidth <= 1)
         {
-            method = "managed implicit QL (tridiagonal)";
-            return Tridiagonal(band.Diagonal(), band.SubDiagonal());
+            try
+            {
+                method = "managed implicit QL (tridiagonal)";
+                return Tridiagonal(band.Diagonal(), band.SubDiagonal());
+            }
+            catch (ArithmeticException e) when (band.Count <= DenseStorage.StateLimit)
+            {
+                // A strongly graded stiff chain can defeat the QL sweeps in one direction; the dense solver takes it.
+                why = e.Message;
+            }
         }
 
         if (band.Count > DenseStorage.StateLimit)
@@ -30,7 +39,7 @@ public static class BandEigenvalues
                 $"the eigenvalues of a {band.Count}-state band matrix of bandwidth {band.Bandwidth} need the native library (dsbev_) or a dense {band.Count} x {band.Count} array, beyond the {DenseStorage.StateLimit}-state limit; install OpenBLAS (Debian package libopenblas0)");
         }
 
-        method = $"managed dense symmetric eigen-solver (bandwidth {band.Bandwidth}: no managed band reduction)";
+        method = $"managed dense symmetric eigen-solver ({why})";
         var dense = MathNet.Numerics.LinearAlgebra.Double.DenseMatrix.Create(band.Count, band.Count, (i, j) => band[i, j]);
         return algebra.SymmetricEigen(dense).Values;
     }

@@ -21,12 +21,23 @@ namespace RateDeck.LinearAlgebra;
 public sealed class MMatrixFactorization
 {
     private readonly int _n;
+    private readonly int _bandwidth;
+    private readonly int _stride;
+    private readonly int _origin;
     private readonly double[] _factors;
     private readonly double[] _pivots;
 
-    private MMatrixFactorization(int n, double[] factors, double[] pivots)
+    /// <summary>
+    /// Entry (i, j) lives at [j stride + i + origin]: dense column-major N x N is stride N, origin 0
+    /// (bandwidth N - 1); a band of half-width b keeps column j's rows j - b .. j + b contiguous at
+    /// [j (2b + 1)], i.e. stride 2b, origin b. Without pivoting the factors keep the band.
+    /// </summary>
+    private MMatrixFactorization(int n, int bandwidth, int stride, int origin, double[] factors, double[] pivots)
     {
         _n = n;
+        _bandwidth = bandwidth;
+        _stride = stride;
+        _origin = origin;
         _factors = factors;
         _pivots = pivots;
     }
@@ -49,15 +60,39 @@ public sealed class MMatrixFactorization
             throw new ArgumentException($"expected {n} x {n} off-diagonal magnitudes and {n} excesses", nameof(offDiagonal));
         }
 
-        var m = offDiagonal;
+        return Eliminate(n, Math.Max(0, n - 1), n, 0, offDiagonal, excess);
+    }
+
+    /// <summary>
+    /// As <see cref="Factor"/> for a banded A (m_ij = 0 when |i - j| &gt; <paramref name="bandwidth"/>),
+    /// in O(N b^2) operations and N (2b + 1) numbers: <paramref name="band"/> holds column j's rows
+    /// j - b .. j + b at [j (2b + 1) + (i - j + b)] (slots outside the matrix ignored; consumed).
+    /// </summary>
+    /// <exception cref="SingularMatrixException">A pivot is zero: a set of states has no way out and no excess.</exception>
+    public static MMatrixFactorization FactorBand(int n, int bandwidth, double[] band, double[] excess)
+    {
+        ArgumentNullException.ThrowIfNull(band);
+        ArgumentNullException.ThrowIfNull(excess);
+        if (bandwidth < 0 || band.Length != n * ((2 * bandwidth) + 1) || excess.Length != n)
+        {
+            throw new ArgumentException($"expected {n} band columns of {(2 * bandwidth) + 1} off-diagonal magnitudes and {n} excesses", nameof(band));
+        }
+
+        return Eliminate(n, bandwidth, 2 * bandwidth, bandwidth, band, excess);
+    }
+
+    private static MMatrixFactorization Eliminate(int n, int bandwidth, int stride, int origin, double[] m, double[] excess)
+    {
         var pivots = new double[n];
         for (var k = 0; k < n; k++)
         {
-            var column = m.AsSpan(k * n, n);
+            var last = Math.Min(n - 1, k + bandwidth);
+            var start = (k * stride) + origin;
+            var below = m.AsSpan(start + k + 1, last - k);
             var pivot = excess[k];
-            for (var i = k + 1; i < n; i++)
+            foreach (var value in below)
             {
-                pivot += column[i];
+                pivot += value;
             }
 
             if (!(pivot > 0))
@@ -66,25 +101,25 @@ public sealed class MMatrixFactorization
             }
 
             pivots[k] = pivot;
-            for (var i = k + 1; i < n; i++)
+            for (var i = 0; i < below.Length; i++)
             {
-                column[i] /= pivot;
+                below[i] /= pivot;
             }
 
-            var multipliers = column[(k + 1)..];
             var share = excess[k] / pivot;
-            for (var j = k + 1; j < n; j++)
+            for (var j = k + 1; j <= last; j++)
             {
-                var mkj = m[(j * n) + k];
+                var column = (j * stride) + origin;
+                var mkj = m[column + k];
                 if (mkj != 0)
                 {
                     excess[j] += mkj * share;
-                    AddScaled(m.AsSpan((j * n) + k + 1, n - k - 1), multipliers, mkj);
+                    AddScaled(m.AsSpan(column + k + 1, last - k), below, mkj);
                 }
             }
         }
 
-        return new MMatrixFactorization(n, m, pivots);
+        return new MMatrixFactorization(n, bandwidth, stride, origin, m, pivots);
     }
 
     /// <summary>Overwrites <paramref name="b"/> with A^-1 b.</summary>
@@ -100,7 +135,8 @@ public sealed class MMatrixFactorization
         {
             if (b[k] != 0)
             {
-                AddScaled(b[(k + 1)..], _factors.AsSpan((k * n) + k + 1, n - k - 1), b[k]);
+                var last = Math.Min(n - 1, k + _bandwidth);
+                AddScaled(b[(k + 1)..(last + 1)], _factors.AsSpan((k * _stride) + _origin + k + 1, last - k), b[k]);
             }
         }
 
@@ -109,7 +145,8 @@ public sealed class MMatrixFactorization
             b[k] /= _pivots[k];
             if (b[k] != 0 && k > 0)
             {
-                AddScaled(b[..k], _factors.AsSpan(k * n, k), b[k]);
+                var first = Math.Max(0, k - _bandwidth);
+                AddScaled(b[first..k], _factors.AsSpan((k * _stride) + _origin + first, k - first), b[k]);
             }
         }
     }

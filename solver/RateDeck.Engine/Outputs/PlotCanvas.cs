@@ -67,7 +67,8 @@ internal static class PlotCanvas
 
     /// <summary>
     /// The title in lines of at most <paramref name="charactersPerLine"/> characters where it can be
-    /// broken: after its last ": " (the deck's title, then what the plot shows) and at spaces.
+    /// broken: after its last ": " (the deck's title, then what the plot shows) when both parts fit,
+    /// otherwise at the spaces, as few lines as the words allow.
     /// </summary>
     public static string WrapTitle(string title, int charactersPerLine = _titleCharactersPerLine)
     {
@@ -76,8 +77,11 @@ internal static class PlotCanvas
             return title;
         }
 
+        // Break after the deck's title only where both parts then fit on a line; else fill the lines.
         var colon = title.LastIndexOf(": ", StringComparison.Ordinal);
-        var parts = colon > 0 ? new[] { title[..(colon + 1)], title[(colon + 2)..] } : [title];
+        var parts = colon > 0 && colon + 1 <= charactersPerLine && title.Length - colon - 2 <= charactersPerLine
+            ? new[] { title[..(colon + 1)], title[(colon + 2)..] }
+            : [title];
         var lines = new List<string>();
         foreach (var part in parts)
         {

@@ -68,12 +68,13 @@ public static class ResultCsv
     /// <summary>
     /// Real eigenvalues of the generator: columns <c>mode</c> (numbered from 1, in the given order),
     /// <c>eigenvalue</c> (per time unit) and <c>relaxation_time</c> = 1 / |lambda| (time unit),
-    /// <c>inf</c> for a zero mode, i.e. |lambda| &lt;= <paramref name="zeroTolerance"/>.
+    /// <c>inf</c> for a zero mode, i.e. |lambda| &lt;= <paramref name="zeroTolerance"/>. A
+    /// <paramref name="modesNote"/> (where each row's value comes from) is written as a <c># modes:</c> line.
     /// </summary>
-    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<double> eigenvalues, string timeUnit, double zeroTolerance = 0)
+    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<double> eigenvalues, string timeUnit, double zeroTolerance = 0, string? modesNote = null)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
-        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["mode", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance, modesNote), ["mode", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
         {
             row.WriteField(ModeNumber(k));
             row.WriteField(CsvNumber.Format(eigenvalues[k]));
@@ -85,11 +86,12 @@ public static class ResultCsv
     /// Complex eigenvalues (a generator without detailed balance): columns <c>mode</c> (from 1),
     /// <c>eigenvalue_re</c>, <c>eigenvalue_im</c> and <c>relaxation_time</c> = 1 / |Re lambda|, the
     /// decay time of the mode's amplitude, <c>inf</c> when |Re lambda| &lt;= <paramref name="zeroTolerance"/>.
+    /// A <paramref name="modesNote"/> (where each row's value comes from) is written as a <c># modes:</c> line.
     /// </summary>
-    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<Complex> eigenvalues, string timeUnit, double zeroTolerance = 0)
+    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<Complex> eigenvalues, string timeUnit, double zeroTolerance = 0, string? modesNote = null)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
-        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance), ["mode", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance, modesNote), ["mode", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
         {
             row.WriteField(ModeNumber(k));
             row.WriteField(CsvNumber.Format(eigenvalues[k].Real));
@@ -274,11 +276,12 @@ public static class ResultCsv
     private static double RelaxationTime(double rate, double zeroTolerance) =>
         Math.Abs(rate) <= zeroTolerance ? double.PositiveInfinity : 1.0 / Math.Abs(rate);
 
-    private static KeyValuePair<string, string>[] SpectrumNotes(string timeUnit, double zeroTolerance) =>
+    private static KeyValuePair<string, string>[] SpectrumNotes(string timeUnit, double zeroTolerance, string? modesNote) =>
     [
         KeyValuePair.Create("eigenvalue_unit", $"1/{timeUnit}"),
         KeyValuePair.Create("time_unit", timeUnit),
         KeyValuePair.Create("zero_tolerance", CsvNumber.Format(zeroTolerance)),
+        .. modesNote is null ? [] : new[] { KeyValuePair.Create("modes", modesNote) },
     ];
 
     private static void RequireRows(Trajectory trajectory, int stateCount, string name)

@@ -153,6 +153,15 @@ public sealed class PlotModelTests
         Assert.Equal("Relaxation of a six-level ladder at two temperatures (demo):\npopulations", wrapped);
     }
 
+    [Fact]
+    public void TitleWhoseDeckPartIsTooLong_FillsTwoLinesInsteadOfThree()
+    {
+        var wrapped = PlotCanvas.WrapTitle("Collisional relaxation of a six-level ladder at two temperatures (fit demo): population map", 62);
+
+        Assert.Equal(2, wrapped.Split('\n').Length);
+        Assert.All(wrapped.Split('\n'), line => Assert.True(line.Length <= 62, line));
+    }
+
     private sealed class Tolerance(double absolute) : IEqualityComparer<double>
     {
         public bool Equals(double x, double y) => Math.Abs(x - y) <= absolute;

@@ -19,12 +19,15 @@ public class StiffDeckTests
 {
     public static TheoryData<string> Decks => new() { "stiff-three", "stiff-six" };
 
-    [Fact]
-    public void Fixture_RecordsTheMpmathVersion()
+    /// <summary>The stiff fixtures and the slow-mode fixtures (SlowModeTests) record the mpmath that made them.</summary>
+    [Theory]
+    [InlineData("stiff.json", "1.2.1")]
+    [InlineData("slow_modes.json", "1.3.0")]
+    public void Fixture_RecordsTheMpmathVersion(string file, string version)
     {
-        using var document = JsonDocument.Parse(File.ReadAllText(StiffFixture.FixturePath));
+        using var document = JsonDocument.Parse(File.ReadAllText(Path.Combine(AppContext.BaseDirectory, "fixtures", file)));
         Assert.Equal("mpmath", document.RootElement.GetProperty("library").GetString());
-        Assert.Equal("1.2.1", document.RootElement.GetProperty("mpmath").GetString());
+        Assert.Equal(version, document.RootElement.GetProperty("mpmath").GetString());
     }
 
     [Theory]

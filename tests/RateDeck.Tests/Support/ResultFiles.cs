@@ -1,14 +1,12 @@
-using System.Globalization;
-
 namespace RateDeck.Tests.Support;
 
 /// <summary>Reads what a run wrote, as a user's script would.</summary>
 internal static class ResultFiles
 {
-    /// <summary>The data rows of a result CSV (provenance comments and the header skipped), each cell parsed as a number.</summary>
+    /// <summary>The data rows of a result CSV (provenance comments and the header skipped), each cell parsed as a number (inf and nan as the files write them).</summary>
     public static double[][] Rows(string path) =>
         [.. File.ReadAllLines(path).Where(l => !l.StartsWith('#')).Skip(1)
-            .Select(line => line.Split(',').Select(c => double.Parse(c, CultureInfo.InvariantCulture)).ToArray())];
+            .Select(line => line.Split(',').Select(c => RateDeck.Outputs.CsvNumber.TryParse(c, out var value) ? value : throw new FormatException($"not a number: {c}")).ToArray())];
 
     /// <summary>
     /// Writes a three-state deck (labels a, b, c at coordinates 1, 2, 3, kT = 1) whose full measured

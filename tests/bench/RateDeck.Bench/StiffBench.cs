@@ -38,6 +38,46 @@ public static class StiffBench
             var grain = Path.Combine(Path.GetTempPath(), $"ratedeck-bench-grain-{n}", "grain.toml");
             Paths(output, $"grain-{n}", DeckPipeline.Load(grain, [], algebra), runs);
         }
+
+        output.WriteLine();
+        RunSlowRates(sizes, runs, output);
+    }
+
+    /// <summary>
+    /// The slowest rates of the dense grain decks of <paramref name="sizes"/> states, in process: the
+    /// plain symmetric eigen-decomposition of S in double against the slow-mode iteration, median of
+    /// <paramref name="runs"/>.
+    /// </summary>
+    public static void RunSlowRates(int[] sizes, int runs, TextWriter output)
+    {
+        var algebra = LinearAlgebraProviders.Select(null, out _);
+        output.WriteLine($"slowest rates in process (provider {algebra.Name}): the plain symmetric eigen-decomposition of S in double against the slow-mode iteration, median of {runs}, seconds:");
+        foreach (var n in sizes)
+        {
+            var grain = BenchDecks.WriteGrain(Path.Combine(Path.GetTempPath(), $"ratedeck-bench-grain-{n}"), n);
+            SlowRates(output, $"grain-{n}", DeckPipeline.Load(grain, [], algebra), runs);
+        }
+    }
+
+    /// <summary>
+    /// The cost of the slow-mode iteration (<see cref="SlowModes"/>: block factorization and
+    /// inverse subspace iteration) against the plain symmetric path's decomposition on the same deck,
+    /// with what each says the slowest rate is.
+    /// </summary>
+    private static void SlowRates(TextWriter output, string label, LoadedDeck loaded, int runs)
+    {
+        var rates = loaded.Rates;
+        var seconds = Timing.Measure(
+            [
+                () => loaded.Algebra.SymmetricEigenOverwriting(Rates.SymmetrizedGenerator.Build(rates)),
+                () => SlowModes.Compute(rates, balanced: true),
+            ], warmups: 1, runs);
+        var plain = Timing.Median(seconds[0]);
+        var spectrum = Spectrum.Compute(rates, loaded.Algebra);
+        var slow = SlowModes.Compute(rates, balanced: true);
+        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {label,-10} {"symmetric (double, plain)",-28} {plain,9:F4}  {spectrum.Unresolved ?? "resolves the slow modes"}"));
+        var median = Timing.Median(seconds[1]);
+        output.WriteLine(string.Create(CultureInfo.InvariantCulture, $"  {label,-10} {"slow-mode iteration",-28} {median,9:F4}  ({median / plain,5:F2} x plain) slowest rate {slow.SlowestRate?.ToString("G10", CultureInfo.InvariantCulture) ?? slow.Failure}; {slow.Description}"));
     }
 
     private static void WholeProcess(TextWriter output, string cli, string label, string[] arguments, int runs)
