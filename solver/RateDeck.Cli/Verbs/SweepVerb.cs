@@ -67,11 +67,11 @@ public sealed class SweepVerb : IVerb
         if (emit is not null)
         {
             JobList.Write(manifest, folder);
-            return Report(context, args.Json, folder, manifest, null, 0, emitted: true);
+            return Report(context, args.Json, folder, manifest, null, 0, emitted: true, args.Quiet);
         }
 
         var pending = manifest.Points.Zip(plan.Points()).Where(p => !folder.IsComplete(manifest, p.First)).Select(p => p.Second).ToArray();
-        var settings = new RunSettings(null, null, null, args.Has(_exactOnly), null, false, false, false, args.Has(_plots), false, false, false);
+        var settings = new RunSettings(null, null, null, args.Has(_exactOnly), null, false, false, false, args.Has(_plots), false, false, false, false);
         try
         {
             Parallel.ForEach(pending, new ParallelOptions { MaxDegreeOfParallelism = args.Value(_jobs) ?? Environment.ProcessorCount }, point =>
@@ -85,7 +85,7 @@ public sealed class SweepVerb : IVerb
         }
 
         var tally = folder.WriteSummary(manifest);
-        return Report(context, args.Json, folder, manifest, tally, manifest.Points.Count - pending.Length, emitted: false);
+        return Report(context, args.Json, folder, manifest, tally, manifest.Points.Count - pending.Length, emitted: false, args.Quiet);
     }
 
     // A new folder gets the manifest; a folder holding this very sweep is resumed; another sweep's folder is refused.
@@ -107,7 +107,7 @@ public sealed class SweepVerb : IVerb
     }
 
     /// <summary>The summary line (or JSON) of a sweep or a collect, and the exit code its tally calls for.</summary>
-    internal static int Report(VerbContext context, bool json, SweepFolder folder, SweepManifest manifest, SweepTally? tally, int skipped, bool emitted)
+    internal static int Report(VerbContext context, bool json, SweepFolder folder, SweepManifest manifest, SweepTally? tally, int skipped, bool emitted, bool quiet = false)
     {
         var jobs = Path.Combine(folder.Path, JobList.JobsName);
         if (json)
@@ -131,7 +131,10 @@ public sealed class SweepVerb : IVerb
         else if (tally is null)
         {
             context.Out.WriteLine($"wrote {manifest.Points.Count} job lines to {jobs} and the job-array script {Path.Combine(folder.Path, JobList.SlurmName)}");
-            context.Out.WriteLine($"run them from this folder with GNU parallel (parallel --jobs 4 < {JobList.Quote(jobs)}) or Slurm (sbatch {JobList.Quote(Path.Combine(folder.Path, JobList.SlurmName))}), then: ratedeck collect {JobList.Quote(folder.Path)}");
+            if (!quiet)
+            {
+                context.Out.WriteLine($"run them from this folder with GNU parallel (parallel --jobs 4 < {JobList.Quote(jobs)}) or Slurm (sbatch {JobList.Quote(Path.Combine(folder.Path, JobList.SlurmName))}), then: ratedeck collect {JobList.Quote(folder.Path)}");
+            }
         }
         else
         {
