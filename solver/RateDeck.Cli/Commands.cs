@@ -64,7 +64,7 @@ public static class Commands
 
     private static string Usage(Argument argument) => argument.Arity.MinimumNumberOfValues > 0 ? argument.Name : $"[{argument.Name}]";
 
-    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new SweepVerb(), new CollectVerb()];
+    private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new SweepVerb(), new CollectVerb(), new InitVerb(), new ResolveVerb()];
 
     private static Command Root(IVerb[] verbs)
     {
@@ -128,7 +128,7 @@ public static class Commands
         if (ReferenceEquals(command, root))
         {
             output.WriteLine("Exit codes: 0 ok, 1 internal error, 2 bad deck or command line, 3 unsafe time step, 4 check failed,");
-            output.WriteLine("5 output not written, 6 fit not converged, 7 sweep points failed or missing (docs/cli.md).");
+            output.WriteLine("5 output not written, 6 fit not converged, 7 sweep points failed or missing, 130 stopped by SIGINT, 143 by SIGTERM (docs/cli.md).");
         }
     }
 

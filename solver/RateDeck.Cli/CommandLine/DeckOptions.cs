@@ -4,7 +4,7 @@ namespace RateDeck.Cli.CommandLine;
 
 /// <summary>
 /// What every verb that reads a deck takes besides its own options: the deck file, <c>--set</c>
-/// overrides, <c>--json</c> and <c>--linalg</c>. Declared once here; a verb adds
+/// overrides, <c>--json</c>, <c>--quiet</c> and <c>--linalg</c>. Declared once here; a verb adds
 /// only its own options.
 /// </summary>
 internal static class DeckOptions
@@ -18,6 +18,9 @@ internal static class DeckOptions
     /// <summary>The JSON switch.</summary>
     public const string Json = "--json";
 
+    /// <summary>The one-line summary switch.</summary>
+    public const string Quiet = "--quiet";
+
     /// <summary>The linear-algebra provider option.</summary>
     public const string Linalg = "--linalg";
 
@@ -29,6 +32,7 @@ internal static class DeckOptions
             new Argument<string>(Deck) { Description = "a deck file (TOML)" },
             VerbOptions.Repeated(Set, "KEY=VALUE", "override a deck parameter or key (KEY=VALUE), or remove one (remove:KEY); repeatable, applied in order"),
             VerbOptions.Switch(Json, "print one JSON object on stdout instead of the summary"),
+            VerbOptions.Switch(Quiet, "print one summary line instead of the summary"),
             VerbOptions.Word(Linalg, "linear-algebra provider (default auto, or the RATEDECK_LINALG environment variable)", "auto", "native", "managed"),
         };
         foreach (var option in options)

@@ -7,7 +7,7 @@ namespace RateDeck.Cli.CommandLine;
 /// <summary>
 /// The first mistake on a verb's command line, said in the verb's own words: a switch given a
 /// value, an option the verb does not have (with a hint), a word too many or a missing argument,
-/// or what an option's own parser refused.
+/// <c>--json</c> with <c>--quiet</c>, or what an option's own parser refused.
 /// </summary>
 internal static class UsageMistakes
 {
@@ -51,6 +51,11 @@ internal static class UsageMistakes
         if (command.Arguments.FirstOrDefault(a => a.Arity.MinimumNumberOfValues > 0 && parse.GetResult(a) is not { Tokens.Count: > 0 }) is { } missing)
         {
             return $"needs {missing.Description}";
+        }
+
+        if (options.Any(o => o.Name == DeckOptions.Json) && parse.GetValue<bool>(DeckOptions.Json) && parse.GetValue<bool>(DeckOptions.Quiet))
+        {
+            return $"{DeckOptions.Json} and {DeckOptions.Quiet} ask for two different outputs: give one of them";
         }
 
         return parse.Errors.Count > 0 ? parse.Errors[0].Message : null;

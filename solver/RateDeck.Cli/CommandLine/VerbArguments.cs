@@ -21,6 +21,9 @@ public sealed class VerbArguments
     /// <summary>True with <c>--json</c>: one JSON object on stdout.</summary>
     public bool Json => _parse.GetValue<bool>(DeckOptions.Json);
 
+    /// <summary>True with <c>--quiet</c>: one summary line on stdout.</summary>
+    public bool Quiet => _parse.GetValue<bool>(DeckOptions.Quiet);
+
     /// <summary>The provider asked for with <c>--linalg</c> (auto, native or managed), or null when absent.</summary>
     public string? LinearAlgebra => _parse.GetValue<string?>(DeckOptions.Linalg);
 

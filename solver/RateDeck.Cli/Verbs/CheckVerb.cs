@@ -58,6 +58,13 @@ public sealed class CheckVerb : IVerb
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
+        else if (args.Quiet)
+        {
+            var failed = report.Checks.Where(c => !c.Passed).Select(c => c.Name).ToList();
+            context.Out.WriteLine(failed.Count == 0
+                ? $"check {loaded.Deck.SourcePath}: ok, {report.Checks.Count} checks passed, {loaded.States.Count} states"
+                : $"check {loaded.Deck.SourcePath}: FAIL ({string.Join(", ", failed)}), {loaded.States.Count} states");
+        }
         else
         {
             WriteSummary(context.Out, loaded, report, mechanics, mechanicsFile);

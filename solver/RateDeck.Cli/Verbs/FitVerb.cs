@@ -62,6 +62,11 @@ public sealed class FitVerb : IVerb
             json["not_written_back"] = notWrittenBack;
             JsonSummary.Write(context.Out, json);
         }
+        else if (args.Quiet)
+        {
+            var estimates = report.Parameters.Select(p => $"{p.Name} = {Format.Number(p.Value)} +- {(double.IsNaN(p.StandardError) ? "?" : Format.Number(p.StandardError))}");
+            context.Out.WriteLine($"fit {outcome.Deck.SourcePath}: {(report.Converged ? "converged" : "NOT CONVERGED")}, {string.Join(", ", estimates)}, RSS {Format.Number(report.Rss)}; wrote {files.Count + (fittedDeck is null ? 0 : 1)} files");
+        }
         else
         {
             WriteSummary(context.Out, outcome, algebra, folder, files);

@@ -40,7 +40,7 @@ public sealed class RunVerb : IVerb
     public int Execute(VerbArguments args, VerbContext context)
     {
         var settings = new RunSettings(args.Value(_dt), args.Value(_method), args.Value(_out), args.Has(_exactOnly), args.Value(_exact), args.Has(_implicit),
-            args.Has(_allowUnstable), args.Has(_requireAccuracy), !args.Has(_noPlots), args.Has(_writeRates), args.Json, VerbSupport.ShowsProgress(args, context));
+            args.Has(_allowUnstable), args.Has(_requireAccuracy), !args.Has(_noPlots), args.Has(_writeRates), args.Json, args.Quiet, VerbSupport.ShowsProgress(args, context));
         return args.Value(_statusFile) is { } statusFile
             ? WithStatus(statusFile, context, recorded => Execute(VerbSupport.Load(args), settings, recorded))
             : Execute(VerbSupport.Load(args), settings, context);
@@ -148,6 +148,14 @@ public sealed class RunVerb : IVerb
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
+        else if (settings.Quiet)
+        {
+            var explicitPart = explicitMethod is not null && difference is not null
+                ? $"{explicitMethod} dt = {Format.Number(dt)} {loaded.Deck.TimeUnit} differs from exact by {Format.Number(difference.MaxRelativeToTotal)} of the total"
+                : run.ExplicitDeclined is not null ? "explicit declined" : "exact only";
+            var steadyPart = distance is { } d ? $", {Format.Number(d)} from the steady state at t_end" : "";
+            context.Out.WriteLine($"run {loaded.Deck.SourcePath}: exact {exactPropagator.Name}, {explicitPart}{steadyPart}; wrote {written.Count} files to {outputFolder}");
+        }
         else
         {
             VerbSupport.WriteDeckLine(context.Out, loaded);
@@ -231,6 +239,7 @@ public sealed class RunVerb : IVerb
 /// <param name="Plots">Draw the PNG plots (not --no-plots).</param>
 /// <param name="WriteRates">--write-rates.</param>
 /// <param name="Json">--json.</param>
+/// <param name="Quiet">--quiet: one summary line.</param>
 /// <param name="Progress">Draw progress bars on the terminal.</param>
 internal sealed record RunSettings(StepRequest? Step, Decks.ExplicitMethod? Method, string? Out, bool ExactOnly, string? ExactPath, bool WithImplicit,
-    bool AllowUnstable, bool RequireAccuracy, bool Plots, bool WriteRates, bool Json, bool Progress);
+    bool AllowUnstable, bool RequireAccuracy, bool Plots, bool WriteRates, bool Json, bool Quiet, bool Progress);

@@ -56,6 +56,12 @@ public sealed class SteadyVerb : IVerb
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
+        else if (args.Quiet)
+        {
+            context.Out.WriteLine(steady.Exists
+                ? $"steady {loaded.Deck.SourcePath}: {steady.Kind.ToString().ToLowerInvariant()} steady state, residual {Format.Number(steady.Residual ?? double.NaN)}, approach time {Format.Number(steady.ApproachTime)} {loaded.Deck.TimeUnit}; wrote {file}"
+                : $"steady {loaded.Deck.SourcePath}: none: {steady.Message}");
+        }
         else
         {
             WriteSummary(context.Out, loaded, steady, file);

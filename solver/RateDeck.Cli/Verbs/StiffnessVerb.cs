@@ -74,6 +74,12 @@ public sealed class StiffnessVerb : IVerb
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();
         }
+        else if (args.Quiet)
+        {
+            var unit = loaded.Deck.TimeUnit;
+            var verdict = dt is { } step ? $"; dt = {Format.Number(step)} {unit} {(safe ? "safe" : "UNSAFE")} for {VerbSupport.MethodName(chosen)}" : "";
+            context.Out.WriteLine($"stiffness {loaded.Deck.SourcePath}: spectral radius {Format.Number(report.SpectralRadius)} per {unit}, stiffness ratio {Optional(report.StiffnessRatio)}, stable dt: euler {Format.Number(report.EulerStable.MaxStep)} {unit}, rk4 {Format.Number(report.Rk4Stable.MaxStep)} {unit}{verdict}");
+        }
         else
         {
             WriteSummary(context.Out, loaded, spectrum, report, run);

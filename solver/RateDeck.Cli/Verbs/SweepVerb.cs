@@ -16,6 +16,9 @@ namespace RateDeck.Cli.Verbs;
 /// </summary>
 public sealed class SweepVerb : IVerb
 {
+    // Enough failing points on stderr to see the pattern; the table has them all.
+    private const int _problemsShown = 10;
+
     private readonly Option<string[]> _vary = VerbOptions.Repeated("--vary", "KEY=START:STOP:COUNT[:log]", "vary a deck key (as --set names it) over COUNT values from START to STOP, evenly spaced or geometric (:log); repeatable: the points are every combination");
     private readonly Option<bool> _zip = VerbOptions.Switch("--zip", "walk the --vary axes together (equal counts) instead of taking every combination");
     private readonly Option<int?> _jobs = VerbOptions.WholeNumber("--jobs", "N", "points run at once in this process (default: the number of processors)", 1);
@@ -64,11 +67,11 @@ public sealed class SweepVerb : IVerb
         if (emit is not null)
         {
             JobList.Write(manifest, folder);
-            return Report(context, args.Json, folder, manifest, null, 0, emitted: true);
+            return Report(context, args.Json, folder, manifest, null, 0, emitted: true, args.Quiet);
         }
 
         var pending = manifest.Points.Zip(plan.Points()).Where(p => !folder.IsComplete(manifest, p.First)).Select(p => p.Second).ToArray();
-        var settings = new RunSettings(null, null, null, args.Has(_exactOnly), null, false, false, false, args.Has(_plots), false, false, false);
+        var settings = new RunSettings(null, null, null, args.Has(_exactOnly), null, false, false, false, args.Has(_plots), false, false, false, false);
         try
         {
             Parallel.ForEach(pending, new ParallelOptions { MaxDegreeOfParallelism = args.Value(_jobs) ?? Environment.ProcessorCount }, point =>
@@ -82,7 +85,7 @@ public sealed class SweepVerb : IVerb
         }
 
         var tally = folder.WriteSummary(manifest);
-        return Report(context, args.Json, folder, manifest, tally, manifest.Points.Count - pending.Length, emitted: false);
+        return Report(context, args.Json, folder, manifest, tally, manifest.Points.Count - pending.Length, emitted: false, args.Quiet);
     }
 
     // A new folder gets the manifest; a folder holding this very sweep is resumed; another sweep's folder is refused.
@@ -104,7 +107,7 @@ public sealed class SweepVerb : IVerb
     }
 
     /// <summary>The summary line (or JSON) of a sweep or a collect, and the exit code its tally calls for.</summary>
-    internal static int Report(VerbContext context, bool json, SweepFolder folder, SweepManifest manifest, SweepTally? tally, int skipped, bool emitted)
+    internal static int Report(VerbContext context, bool json, SweepFolder folder, SweepManifest manifest, SweepTally? tally, int skipped, bool emitted, bool quiet = false)
     {
         var jobs = Path.Combine(folder.Path, JobList.JobsName);
         if (json)
@@ -128,7 +131,10 @@ public sealed class SweepVerb : IVerb
         else if (tally is null)
         {
             context.Out.WriteLine($"wrote {manifest.Points.Count} job lines to {jobs} and the job-array script {Path.Combine(folder.Path, JobList.SlurmName)}");
-            context.Out.WriteLine($"run them from this folder with GNU parallel (parallel --jobs 4 < {JobList.Quote(jobs)}) or Slurm (sbatch {JobList.Quote(Path.Combine(folder.Path, JobList.SlurmName))}), then: ratedeck collect {JobList.Quote(folder.Path)}");
+            if (!quiet)
+            {
+                context.Out.WriteLine($"run them from this folder with GNU parallel (parallel --jobs 4 < {JobList.Quote(jobs)}) or Slurm (sbatch {JobList.Quote(Path.Combine(folder.Path, JobList.SlurmName))}), then: ratedeck collect {JobList.Quote(folder.Path)}");
+            }
         }
         else
         {
@@ -142,6 +148,16 @@ public sealed class SweepVerb : IVerb
         }
 
         context.Error.WriteLine($"ratedeck: {tally.Failed + tally.Missing} of {manifest.Points.Count} points have no results; their rows in {folder.SummaryPath} say why (status and message columns)");
+        foreach (var problem in tally.Problems.Take(_problemsShown))
+        {
+            context.Error.WriteLine("  " + problem);
+        }
+
+        if (tally.Problems.Count > _problemsShown)
+        {
+            context.Error.WriteLine($"  ... and {tally.Problems.Count - _problemsShown} more");
+        }
+
         return ExitCodes.PointsFailed;
     }
 }

@@ -32,10 +32,10 @@ internal static class VerbSupport
 
     /// <summary>
     /// True when a progress bar may be drawn: the verb writes to the console, stdout is a terminal
-    /// (not piped or redirected to a file) and --json did not ask for plain output.
+    /// (not piped or redirected to a file) and neither --json nor --quiet asked for plain output.
     /// </summary>
     public static bool ShowsProgress(VerbArguments args, VerbContext context) =>
-        context.Error == Console.Error && !Console.IsOutputRedirected && !args.Json;
+        context.Error == Console.Error && !Console.IsOutputRedirected && !args.Json && !args.Quiet;
 
     /// <summary>
     /// The provenance every JSON summary starts with (tool version, deck, hash, overrides, provider,

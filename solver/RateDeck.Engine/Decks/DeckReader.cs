@@ -73,7 +73,8 @@ public static partial class DeckReader
     /// <summary>Reads the tables of one deck in dependency order (the states before anything per state).</summary>
     private sealed class Builder(TomlTableNode root, string path, string baseDirectory, DeckMemo memo)
     {
-        private readonly SourceSpan _deckSpan = SourceSpan.None(path);
+        // What the deck lacks is reported at its first line and column, so every error is located.
+        private readonly SourceSpan _deckSpan = root.Span;
         private GridSpec _grid = null!;
         private StateNames _states = null!;
         private (string Given, string Output) _time = ("s", "s");

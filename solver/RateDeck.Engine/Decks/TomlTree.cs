@@ -1,3 +1,4 @@
+using System.Text.RegularExpressions;
 using Tomlyn.Parsing;
 using Tomlyn.Syntax;
 
@@ -88,7 +89,7 @@ internal sealed class TomlTableNode(SourceSpan span) : TomlNode(span)
 }
 
 /// <summary>Turns TOML text into <see cref="TomlNode"/>s with one-based spans, using Tomlyn's syntax tree.</summary>
-internal static class TomlTree
+internal static partial class TomlTree
 {
     /// <summary>
     /// Parses a deck into its values and Tomlyn's full syntax tree (every comment and blank kept);
@@ -141,11 +142,23 @@ internal static class TomlTree
         }
         catch (Tomlyn.TomlException) when (DeepestBracket(text, _tomlynMaxDepth) is { } offset)
         {
-            var before = text.AsSpan(0, offset);
-            var span = new SourceSpan(path, before.Count('\n') + 1, offset - before.LastIndexOf('\n'));
-            throw new DeckException(span, $"TOML syntax: arrays or inline tables nested {_tomlynMaxDepth} deep; a deck needs only a few levels");
+            throw new DeckException(SpanAt(path, text, offset), $"TOML syntax: arrays or inline tables nested {_tomlynMaxDepth} deep; a deck needs only a few levels");
+        }
+        catch (ArgumentOutOfRangeException) when (UnfinishedEscapePattern().Match(text) is { Success: true } escape)
+        {
+            // Tomlyn's lexer throws instead of reporting a \u or \U escape cut short by the end of the file.
+            throw new DeckException(SpanAt(path, text, escape.Index), $"TOML syntax: the file ends inside the escape `{escape.Value}`; \\u takes 4 hex digits and \\U takes 8");
         }
     }
+
+    private static SourceSpan SpanAt(string path, string text, int offset)
+    {
+        var before = text.AsSpan(0, offset);
+        return new SourceSpan(path, before.Count('\n') + 1, offset - before.LastIndexOf('\n'));
+    }
+
+    [GeneratedRegex(@"\\[uU][0-9A-Fa-f]{0,7}\z")]
+    private static partial Regex UnfinishedEscapePattern();
 
     /// <summary>
     /// The offset of the first '[' or '{' that opens level <paramref name="depth"/>, skipping

@@ -208,6 +208,12 @@ public static class SlowModes
                 apply(z[a]);
             }
 
+            if (z.Any(v => v.Any(x => !double.IsFinite(x))))
+            {
+                // Rates near 1e308 beside ones near 1e-307 (found by the fuzz test): the inverse leaves the double range.
+                return new BlockResult([], 0, iteration, 0, symmetric, "its inverse leaves the double range: the rates span more than a double holds");
+            }
+
             ritz = RayleighRitz(q, z, weights);
             var worst = ritz.Residuals.Take(wanted).Max() / ritz.Values[0].Magnitude;
             if (worst <= ConvergenceTolerance)

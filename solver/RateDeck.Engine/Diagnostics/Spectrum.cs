@@ -158,6 +158,9 @@ public sealed class Spectrum
     /// </summary>
     public ExtendedSymmetricEigenDecomposition? Extended { get; }
 
+    /// <summary>Why the double-double decomposition, tried because the double one could not resolve the slow modes, failed too; else null.</summary>
+    public string? ExtendedFailure { get; private init; }
+
     /// <summary>
     /// Decay rate of the slowest decaying mode: -Re(lambda) of the slowest mode beyond the zero
     /// tolerance when the spectrum is resolved; else the accurate one of <see cref="SlowModes"/>.
@@ -302,7 +305,22 @@ public sealed class Spectrum
             return spectrum;
         }
 
-        var extended = ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
+        ExtendedSymmetricEigenDecomposition extended;
+        try
+        {
+            extended = ExtendedSymmetricEigen.Decompose(rates.Count, SymmetrizedGenerator.BuildExtended(rates));
+        }
+        catch (ArithmeticException e)
+        {
+            // Rates spanning more than double-double resolves (some 1e32) leave rounding above the
+            // slow modes in every sweep: the double spectrum stands, marked unresolved, and the
+            // propagator choice then takes a path that needs no eigenvalues.
+            return new Spectrum(rates, SpectrumPath.Symmetrized, $"{reason}; not resolved in double-double either ({e.Message})", spectrum.Values, symmetric, null)
+            {
+                ExtendedFailure = e.Message,
+            };
+        }
+
         var rounded = new SymmetricEigenDecomposition(
             [.. extended.Values.Select(v => v.Value)],
             DenseMatrix.Create(rates.Count, rates.Count, (i, m) => extended.Vectors[(m * rates.Count) + i].Value));

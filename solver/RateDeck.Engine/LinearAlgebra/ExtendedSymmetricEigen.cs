@@ -34,7 +34,9 @@ public static class ExtendedSymmetricEigen
             throw new ArgumentException($"the matrix has {matrix.Length} entries, not {n} x {n}", nameof(matrix));
         }
 
-        var a = matrix;
+        // Scaled into the safe range first: a double-double product splits its factors, which overflows above about 1e300.
+        var scale = EigenScaling.Factor(matrix.Select(x => x.Hi));
+        var a = scale == 1 ? matrix : [.. matrix.Select(x => new DoubleDouble(x.Hi * scale, x.Lo * scale))];
         var v = new DoubleDouble[n * n];
         for (var i = 0; i < n; i++)
         {
@@ -60,7 +62,7 @@ public static class ExtendedSymmetricEigen
         }
 
         var order = Enumerable.Range(0, n).OrderBy(i => a[(i * n) + i].Hi).ThenBy(i => a[(i * n) + i].Lo).ToArray();
-        var values = order.Select(i => a[(i * n) + i]).ToArray();
+        var values = order.Select(i => new DoubleDouble(a[(i * n) + i].Hi / scale, a[(i * n) + i].Lo / scale)).ToArray();
         var vectors = new DoubleDouble[n * n];
         for (var m = 0; m < n; m++)
         {

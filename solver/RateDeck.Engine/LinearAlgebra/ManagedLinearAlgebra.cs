@@ -14,8 +14,10 @@ public sealed class ManagedLinearAlgebra : ILinearAlgebra
     /// <inheritdoc />
     public SymmetricEigenDecomposition SymmetricEigen(DenseMatrix symmetric)
     {
-        var evd = symmetric.Evd(Symmetricity.Symmetric);
-        var values = evd.EigenValues.Select(v => v.Real).ToArray();
+        // MathNet does not scale as LAPACK does: entries near 1e308 would overflow its sums of squares.
+        var (prepared, scale) = EigenScaling.ForManagedSolver(symmetric);
+        var evd = prepared.Evd(Symmetricity.Symmetric);
+        var values = evd.EigenValues.Select(v => v.Real / scale).ToArray();
         var order = Enumerable.Range(0, values.Length).OrderBy(k => values[k]).ToArray();
         var vectors = DenseMatrix.Create(symmetric.RowCount, symmetric.ColumnCount, 0.0);
         for (var column = 0; column < order.Length; column++)
@@ -35,8 +37,9 @@ public sealed class ManagedLinearAlgebra : ILinearAlgebra
     /// <inheritdoc />
     public GeneralEigenDecomposition GeneralEigen(DenseMatrix matrix)
     {
-        var evd = matrix.Evd(Symmetricity.Asymmetric);
-        var values = evd.EigenValues;
+        var (prepared, scale) = EigenScaling.ForManagedSolver(matrix);
+        var evd = prepared.Evd(Symmetricity.Asymmetric);
+        var values = evd.EigenValues.Select(v => v / scale).ToArray();
         return DecompositionConventions.FromPacked(
             values.Select(v => v.Real).ToArray(),
             values.Select(v => v.Imaginary).ToArray(),

@@ -18,12 +18,13 @@ public static class AtomicFile
 
     /// <summary>
     /// Writes text through <paramref name="write"/> (UTF-8, no BOM, <c>\n</c> line ends) and puts it
-    /// in place at <paramref name="path"/>. The folder must exist.
+    /// in place at <paramref name="path"/>. The folder must exist. With <paramref name="overwrite"/>
+    /// false an existing file at <paramref name="path"/> is left alone and an <see cref="IOException"/> thrown.
     /// </summary>
-    public static void Write(string path, Action<TextWriter> write)
+    public static void Write(string path, Action<TextWriter> write, bool overwrite = true)
     {
         ArgumentNullException.ThrowIfNull(write);
-        WriteBytes(path, stream =>
+        WriteBytes(path, overwrite, stream =>
         {
             using var writer = new StreamWriter(stream, TextEncoding, bufferSize: 1 << 16, leaveOpen: true) { NewLine = "\n" };
             write(writer);
@@ -35,7 +36,9 @@ public static class AtomicFile
     /// Writes bytes through <paramref name="write"/> and puts them in place at
     /// <paramref name="path"/>. The stream must not be disposed by the callback. The folder must exist.
     /// </summary>
-    public static void WriteBytes(string path, Action<Stream> write)
+    public static void WriteBytes(string path, Action<Stream> write) => WriteBytes(path, overwrite: true, write);
+
+    private static void WriteBytes(string path, bool overwrite, Action<Stream> write)
     {
         ArgumentException.ThrowIfNullOrEmpty(path);
         ArgumentNullException.ThrowIfNull(write);
@@ -54,7 +57,7 @@ public static class AtomicFile
             }
             using (TemporaryPaths.Hold())
             {
-                File.Move(temporary, target, overwrite: true);
+                File.Move(temporary, target, overwrite);
             }
         }
         catch

@@ -219,9 +219,11 @@ public static class ExactPropagatorChoice
             throw new DenseStorageException(Format($"no exact path fits: {why}, and the implicit integrator factors N x N matrices, refused above {ImplicitStateLimit} states"));
         }
 
-        var extendedLimit = rates.Origin == BalanceOrigin.CompletedByDetailedBalance
-            ? Format($"the double-double eigen path serves decks completed by detailed balance up to {Spectrum.ExtendedPrecisionStateLimit} states")
-            : "the double-double eigen path needs a matrix completed by detailed balance";
+        var extendedLimit = spectrum.ExtendedFailure is { } failure
+            ? $"the double-double eigen path failed too ({failure}): the rates span more than it resolves"
+            : rates.Origin == BalanceOrigin.CompletedByDetailedBalance
+                ? Format($"the double-double eigen path serves decks completed by detailed balance up to {Spectrum.ExtendedPrecisionStateLimit} states")
+                : "the double-double eigen path needs a matrix completed by detailed balance";
         var implicitPropagator = new ImplicitSdirkPropagator(rates);
         implicitPropagator.Reason = $"{implicitPropagator.Reason}: {why}; {extendedLimit}";
         return implicitPropagator;

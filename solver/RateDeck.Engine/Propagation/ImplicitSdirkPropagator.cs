@@ -61,13 +61,18 @@ public sealed class ImplicitSdirkPropagator : IPropagator
     private readonly RateMatrix _rates;
     private readonly int _n;
 
+    /// <summary>The largest off-diagonal rate or loss, to tell when h gamma K would overflow.</summary>
+    private readonly double _maxRate;
+
     /// <summary>Integrator for <paramref name="rates"/> (dense form; every off-diagonal rate must be &gt;= 0).</summary>
     /// <exception cref="ArgumentException">K has a negative off-diagonal rate, so I - h gamma K is no M-matrix.</exception>
     public ImplicitSdirkPropagator(RateMatrix rates)
     {
         ArgumentNullException.ThrowIfNull(rates);
         var negative = false;
-        rates.ForEachOffDiagonal((_, _, rate) => negative |= rate < 0);
+        var maxRate = rates.Loss.DefaultIfEmpty(0).Max();
+        rates.ForEachOffDiagonal((_, _, rate) => (negative, maxRate) = (negative | rate < 0, Math.Max(maxRate, rate)));
+        _maxRate = maxRate;
         if (negative)
         {
             throw new ArgumentException("the rate matrix has a negative off-diagonal rate, so the implicit integrator's systems are not M-matrices", nameof(rates));
@@ -121,7 +126,7 @@ public sealed class ImplicitSdirkPropagator : IPropagator
         var candidate = new double[_n];
         // Two factorizations are kept: the running step's and the last clipped one's, so that a step
         // clipped to reach an output time does not cost the running step its factorization.
-        var cache = new (double Step, MMatrixFactorization? Factors)[] { (double.NaN, null), (double.NaN, null) };
+        var cache = new (double Step, StepFactors? Factors)[] { (double.NaN, null), (double.NaN, null) };
         for (var k = 0; k < times.Count; k++)
         {
             while (t < times[k])
@@ -176,23 +181,46 @@ public sealed class ImplicitSdirkPropagator : IPropagator
         return new Trajectory([.. times], populations);
     }
 
-    /// <summary>I - h gamma K as an M-matrix: off-diagonal magnitudes h gamma K_ij, column excess 1 + h gamma loss_j.</summary>
-    private MMatrixFactorization Factor(double step)
+    /// <summary>
+    /// I - h gamma K as an M-matrix: off-diagonal magnitudes h gamma K_ij, column excess 1 + h gamma loss_j.
+    /// When h gamma times the largest rate could overflow (rates near 1e308), the matrix is factored as
+    /// 2^-e (I - h gamma K) with h gamma 2^-e in [0.5, 1), exactly, and the right side is scaled alike.
+    /// </summary>
+    private StepFactors Factor(double step)
     {
         var scale = step * _gamma;
+        var shrink = scale * _maxRate > 1e300 ? Math.ScaleB(1, -Math.ILogB(scale) - 1) : 1;
+        var scaled = scale * shrink;
         var offDiagonal = new double[_n * _n];
-        _rates.ForEachOffDiagonal((i, j, rate) => offDiagonal[(j * _n) + i] = scale * rate);
+        _rates.ForEachOffDiagonal((i, j, rate) => offDiagonal[(j * _n) + i] = scaled * rate);
         var excess = new double[_n];
         for (var j = 0; j < _n; j++)
         {
-            excess[j] = 1 + (scale * _rates.Loss[j]);
+            excess[j] = shrink + (scaled * _rates.Loss[j]);
         }
 
-        return MMatrixFactorization.Factor(_n, offDiagonal, excess);
+        return new StepFactors(MMatrixFactorization.Factor(_n, offDiagonal, excess), shrink);
+    }
+
+    /// <summary>The factors of shrink (I - h gamma K); a solve scales the right side by the same power of two.</summary>
+    private sealed class StepFactors(MMatrixFactorization factors, double shrink)
+    {
+        public void Solve(double[] b)
+        {
+            if (shrink != 1)
+            {
+                for (var i = 0; i < b.Length; i++)
+                {
+                    b[i] *= shrink;
+                }
+            }
+
+            factors.Solve(b);
+        }
     }
 
     /// <summary>One SDIRK4 step of size <paramref name="step"/> from <paramref name="y"/> into <paramref name="result"/>; returns the scaled error (accept when &lt;= 1).</summary>
-    private double TryStep(MMatrixFactorization factors, double step, double[] y, double[][] z, double[] stage, double[] result, double atol)
+    private double TryStep(StepFactors factors, double step, double[] y, double[][] z, double[] stage, double[] result, double atol)
     {
         var pumping = _rates.Pumping;
         for (var s = 0; s < 5; s++)

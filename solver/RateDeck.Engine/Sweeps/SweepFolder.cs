@@ -7,7 +7,8 @@ namespace RateDeck.Sweeps;
 /// <param name="Ok">Points with complete results.</param>
 /// <param name="Failed">Points whose run ended with a non-zero exit code.</param>
 /// <param name="Missing">Points not run yet, or stopped before they ended.</param>
-public sealed record SweepTally(int Ok, int Failed, int Missing);
+/// <param name="Problems">One line per point without results, in point order: its name, values, status and message.</param>
+public sealed record SweepTally(int Ok, int Failed, int Missing, IReadOnlyList<string> Problems);
 
 /// <summary>
 /// A sweep folder: <c>sweep.json</c> (<see cref="SweepManifest"/>), one output folder per point
@@ -108,7 +109,10 @@ public sealed class SweepFolder(string path)
 
         var header = new OutputHeader(manifest.ToolVersion, manifest.Deck, manifest.DeckSha256, manifest.Overrides);
         ResultCsv.WriteRecords(SummaryPath, header, notes, names, table);
-        return new SweepTally(rows.Count(r => r.Status == "ok"), rows.Count(r => r.Status == "failed"), rows.Count(r => r.Status == "missing"));
+        var problems = rows.Where(r => r.Status != "ok")
+            .Select(r => $"{r.Point.Name} ({string.Join(", ", r.Point.Set)}): {r.Status}{(r.Code.Length > 0 ? $" with exit code {r.Code}" : "")}: {r.Message}")
+            .ToArray();
+        return new SweepTally(rows.Count(r => r.Status == "ok"), rows.Count(r => r.Status == "failed"), rows.Count(r => r.Status == "missing"), problems);
     }
 
     private (int Code, string Message)? ReadStatus(string name)

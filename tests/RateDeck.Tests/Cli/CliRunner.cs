@@ -1,4 +1,5 @@
 using RateDeck.Cli;
+using Xunit;
 
 namespace RateDeck.Tests.Cli;
 
@@ -15,4 +16,21 @@ internal static class CliRunner
 
     /// <summary>The demo deck copied beside the test assembly.</summary>
     public static string DemoDeck(string name) => Path.Combine(AppContext.BaseDirectory, "decks", name);
+
+    /// <summary>The checkout the tests were built from: the first folder above the test assembly holding RateDeck.sln.</summary>
+    public static string RepositoryRoot()
+    {
+        for (var folder = new DirectoryInfo(AppContext.BaseDirectory); folder is not null; folder = folder.Parent)
+        {
+            if (File.Exists(Path.Combine(folder.FullName, "RateDeck.sln")))
+            {
+                return folder.FullName;
+            }
+        }
+
+        throw new InvalidOperationException($"no RateDeck.sln above {AppContext.BaseDirectory}");
+    }
+
+    /// <summary>The verbs as the parser declares them, for theories over every verb.</summary>
+    public static TheoryData<string> Verbs() => [.. Commands.Declaration().Subcommands.Select(c => c.Name)];
 }

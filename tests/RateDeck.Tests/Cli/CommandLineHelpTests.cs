@@ -6,19 +6,8 @@ namespace RateDeck.Tests.Cli;
 /// <summary>Every verb has its own help under --help and -h, made from the parser's declarations (issue 9 §2).</summary>
 public sealed class CommandLineHelpTests
 {
-    public static TheoryData<string> Verbs()
-    {
-        var data = new TheoryData<string>();
-        foreach (var verb in Commands.Declaration().Subcommands)
-        {
-            data.Add(verb.Name);
-        }
-
-        return data;
-    }
-
     [Theory]
-    [MemberData(nameof(Verbs))]
+    [MemberData(nameof(CliRunner.Verbs), MemberType = typeof(CliRunner))]
     public void EveryVerb_HelpAndShortHelp_ShowItsUsageAndEveryOptionItDeclares(string verb)
     {
         var declared = Commands.Declaration().Subcommands.Single(c => c.Name == verb);

@@ -44,6 +44,11 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         new(Deck(run: "t_end = 1.0\n§t_end = 2.0"), null, "TOML syntax: The key `run.t_end` is already defined at (19,1) with `t_end = 1.0` and cannot be redefined"),
         new(Deck(extra: "§[[series]]\nx = 1"), null, "arrays of tables ([[...]]) are not part of the deck format; use a plain [table]"),
         new(Deck(top: "format = §2"), null, "this RateDeck reads deck format 1, not 2"),
+        new(Deck().TrimEnd('\n') + "\nnote = \"§\\u00", null, "TOML syntax: the file ends inside the escape `\\u00`; \\u takes 4 hex digits and \\U takes 8"),
+        // A missing table is reported at the deck's first line and column (found by the fuzz test: no place at all before).
+        new(Deck(top: "§title = \"no format line\""), null, "the deck must start with `format = 1` (the deck format version)"),
+        new("§" + Deck().Replace("[run]\nt_end = 1.0\n", "", StringComparison.Ordinal), null, "the deck needs a [run] table with `t_end` (the end time of the run, > 0)"),
+        new("§" + Deck().Replace("[temperature]\nkT = 0.5\n", "", StringComparison.Ordinal), null, "the deck needs a [temperature] table with kT (in the energy unit) or kelvin"),
         new(Deck(units: "§enrgy = \"eV\""), null, "unknown key `enrgy` in [units]. Did you mean `energy`? Its keys are energy, time, model_time, output_time."),
         // Values of the wrong kind or range.
         new(Deck(units: "energy = \"§ev\""), null, "unknown energy unit \"ev\". Did you mean `eV`? Choose one of \"eV\", \"K\", \"cm-1\", \"J\", \"kJ/mol\", \"none\"."),
@@ -123,6 +128,47 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         Assert.Equal($"{expectedFile}:{places[0].Line}:{places[0].Column}: {item.Message}\n", error);
         Assert.Equal(ExitCodes.BadInput, code);
         Assert.Equal("", output);
+    }
+
+    /// <summary>
+    /// Rates at the ends of the double range beside ordinary ones, found by the fuzz test to end in
+    /// "internal error" (the managed eigen-solver overflowed, the double-double one never
+    /// converged): each now checks cleanly, and the steady state is the Boltzmann distribution
+    /// g_i exp(-E_i/kT) / Z that detailed balance implies for one closed class (common practice;
+    /// van Kampen, Stochastic Processes in Physics and Chemistry, ch. V, from memory).
+    /// </summary>
+    [Theory]
+    [InlineData("from,to,rate\nb,a,1e308\nc,b,2\nc,a,0.5\n")]
+    [InlineData("from,to,rate\nb,a,1e300\nc,b,1e15\n")]
+    [InlineData("from,to,rate\nb,a,1e-307\nc,b,1e15\n")]
+    [InlineData("from,to,rate\nb,a,1e-6\nc,b,1e308\n")]
+    public void RatesAtTheEndsOfTheDoubleRange_CheckCleanlyAndGiveTheBoltzmannSteadyState(string rates)
+    {
+        File.WriteAllText(_scratch.DeckPath, Deck());
+        File.WriteAllText(Path.Combine(_scratch.Directory, "rates.csv"), rates);
+
+        var check = CliRunner.Run("check", _scratch.DeckPath);
+        var steady = CliRunner.Run("steady", _scratch.DeckPath, "--json", "--out", Path.Combine(_scratch.Directory, "out"));
+        var run = CliRunner.Run("run", _scratch.DeckPath, "--exact-only", "--no-plots", "--json", "--out", Path.Combine(_scratch.Directory, "out"));
+
+        Assert.True(check.ExitCode == ExitCodes.Success, check.Error + check.Out);
+        Assert.True(steady.ExitCode == ExitCodes.Success, steady.Error);
+        Assert.True(run.ExitCode == ExitCodes.Success, run.Error);
+        // A closed deck without pumping keeps its total population (common practice: columns of K sum to zero).
+        using (var summary = System.Text.Json.JsonDocument.Parse(run.Out))
+        {
+            Assert.Equal(1.0, summary.RootElement.GetProperty("final_total_population").GetDouble(), 1e-9);
+        }
+
+        using var json = System.Text.Json.JsonDocument.Parse(steady.Out);
+        var populations = json.RootElement.GetProperty("populations").EnumerateArray().Select(p => p.GetDouble()).ToArray();
+        // The catalogue deck: energies 0, 1, 2 eV, weights 1, 3, 5, kT = 0.5 eV.
+        double[] boltzmann = [1, 3 * Math.Exp(-2), 5 * Math.Exp(-4)];
+        var z = boltzmann.Sum();
+        for (var i = 0; i < 3; i++)
+        {
+            Assert.Equal(boltzmann[i] / z, populations[i], 1e-9);
+        }
     }
 
     [Fact]

@@ -101,6 +101,18 @@ public sealed class SweepTests : IDisposable
     }
 
     [Fact]
+    public void SweepOverAWholeNumberKey_GivesItAsAnInteger()
+    {
+        var sweep = _folder.File("sweep");
+
+        // run.outputs must be a whole number: `--set run.outputs=10.0` is refused, `=10` is not.
+        var (code, _, error) = CliRunner.Run("sweep", TwoLevel, "--vary", "run.outputs=10:40:4", "--exact-only", "--out", sweep);
+
+        Assert.True(code == ExitCodes.Success, error);
+        Assert.Equal([11, 21, 31, 41], Enumerable.Range(0, 4).Select(k => ResultFiles.Rows(Path.Combine(sweep, $"point-000{k}", "populations-exact.csv")).Length));
+    }
+
+    [Fact]
     public void Zip_WithUnequalCounts_IsAUsageError()
     {
         AssertBadInput("--zip walks the axes together, so every count must be equal (temperature.kT: 3, run.t_end: 2)",
@@ -148,6 +160,7 @@ public sealed class SweepTests : IDisposable
 
         Assert.Equal(ExitCodes.PointsFailed, code);
         Assert.Contains("2 of 3 points have no results", error, StringComparison.Ordinal);
+        Assert.Contains("  point-0000 (temperature.kT=-0.02): failed with exit code 2: --set temperature.kT=-0.02: `temperature.kT` must be > 0", error, StringComparison.Ordinal);
         var table = Summary(sweep);
         Assert.Equal(["failed", "failed", "ok"], table.Rows.Select(r => Cell(table, table.Rows.ToList().IndexOf(r), "status")));
         Assert.Equal("2", Cell(table, 0, "exit_code"));

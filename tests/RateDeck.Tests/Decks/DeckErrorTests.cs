@@ -129,7 +129,7 @@ public sealed class DeckErrorTests : IDisposable
     public void MissingFormat_IsReportedForTheDeck()
     {
         var error = Assert.Throws<DeckException>(() => _scratch.Parse(DeckScratch.Valid(top: "title = \"x\"")));
-        Assert.Equal(SourceSpan.None(_scratch.DeckPath), error.Span);
+        Assert.Equal(new SourceSpan(_scratch.DeckPath, 1, 1), error.Span);
         Assert.Contains("format = 1", error.Problem);
     }
 
@@ -341,7 +341,7 @@ public sealed class DeckErrorTests : IDisposable
     {
         var text = DeckScratch.Valid().Replace("[run]\nt_end = 1.0\n", "");
         var error = Assert.Throws<DeckException>(() => _scratch.Parse(text));
-        Assert.Equal(SourceSpan.None(_scratch.DeckPath), error.Span);
+        Assert.Equal(new SourceSpan(_scratch.DeckPath, 1, 1), error.Span);
         Assert.Contains("[run] table with `t_end`", error.Problem);
     }
 

@@ -55,7 +55,7 @@ internal sealed record SlowModeFixture(string Name, string[] Energies, string[] 
     /// </summary>
     public static string WriteFullLeaking(TempFolder folder, int n = 200, int cluster = 50)
     {
-        var csv = new StringBuilder("from,to,rate\n");
+        var csv = new StringBuilder();
         for (var j = 1; j <= n; j++)
         {
             for (var i = 1; i <= n; i++)
@@ -70,13 +70,18 @@ internal sealed record SlowModeFixture(string Name, string[] Energies, string[] 
             }
         }
 
-        File.WriteAllText(folder.File("full.csv"), csv.ToString());
-        return WriteDeck(folder, "full", n, $"""
+        return WriteFull(folder, "full", n, csv.ToString(), $"[losses]\nvalues = [1e-9{string.Concat(Enumerable.Repeat(", 0", n - 1))}]");
+    }
+
+    /// <summary>A full measured deck of states 1..<paramref name="n"/> whose rate file holds <paramref name="rows"/> ("from,to,rate" lines), with <paramref name="tables"/> before [run].</summary>
+    public static string WriteFull(TempFolder folder, string name, int n, string rows, string tables)
+    {
+        File.WriteAllText(folder.File($"{name}.csv"), "from,to,rate\n" + rows);
+        return WriteDeck(folder, name, n, $"""
             [transfer]
             kind = "full"
-            csv = "full.csv"
-            [losses]
-            values = [1e-9{string.Concat(Enumerable.Repeat(", 0", n - 1))}]
+            csv = "{name}.csv"
+            {tables}
             [run]
             t_end = 1
             """);

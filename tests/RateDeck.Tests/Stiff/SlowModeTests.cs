@@ -134,6 +134,37 @@ public class SlowModeTests
     }
 
     /// <summary>
+    /// A one-way ring of N states (rate k from each state to the next, the last to the first) is a
+    /// closed class without detailed balance. Its generator is circulant, with eigenvalues
+    /// -k (1 - exp(2 pi i j / N)), j = 0..N-1 (the eigenvalues of a circulant matrix, Davis,
+    /// Circulant Matrices, ch. 3, from memory): the slowest decay is the pair j = +-1 at
+    /// 2k sin^2(pi / N) with frequency k sin(2 pi / N). At N = 200 the double spectrum cannot
+    /// resolve it to 1e-10, and the group-inverse path must find the complex pair.
+    /// </summary>
+    [Fact]
+    public void OneWayRing_SlowestPairMatchesTheCirculantEigenvalues()
+    {
+        using var folder = new TempFolder();
+        const int n = 200;
+        const double k = 3.0;
+        var rows = string.Concat(Enumerable.Range(1, n).Select(i => $"{i},{(i % n) + 1},3\n"));
+        var deck = SlowModeFixture.WriteFull(folder, "ring", n, rows, "");
+        var loaded = Load(deck);
+
+        var spectrum = Spectrum.Compute(loaded.Rates, loaded.Algebra);
+
+        Assert.Equal(SpectrumPath.General, spectrum.Path);
+        Assert.False(spectrum.IsResolved);
+        var slow = spectrum.SlowModes!;
+        Assert.True(slow.Converged, slow.Failure);
+        var decay = 2 * k * Math.Pow(Math.Sin(Math.PI / n), 2);
+        var frequency = k * Math.Sin(2 * Math.PI / n);
+        Assert.Equal(decay, spectrum.SlowestRate!.Value, decay * _tolerance);
+        Assert.Equal(frequency, Math.Abs(slow.Modes[0].Rate.Imaginary), frequency * _tolerance);
+        Assert.Equal(-slow.Modes[0].Rate.Imaginary, slow.Modes[1].Rate.Imaginary, frequency * _tolerance);
+    }
+
+    /// <summary>
     /// The wiring from `run` down: spectrum.csv carries the accurate slow rates beside the
     /// structural zero and says where each row comes from, and the steady-state line takes its
     /// approach time from them.
