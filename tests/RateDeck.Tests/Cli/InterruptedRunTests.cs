@@ -67,7 +67,11 @@ public sealed class InterruptedRunTests : IDisposable
             // Read both streams while waiting, so that the child never blocks on a full pipe.
             var stdout = process.StandardOutput.ReadToEndAsync();
             var stderr = process.StandardError.ReadToEndAsync();
-            Assert.True(await StagedFileAppearsAsync(process, output), "the run ended or stalled before it staged a file");
+            if (!StagedFileAppears(process, output))
+            {
+                process.WaitForExit(60_000);
+                Assert.Fail($"the run ended or stalled before it staged a file (exited: {process.HasExited}, stderr: {(process.HasExited ? await stderr : "")})");
+            }
             using (var kill = Process.Start("kill", ["-" + signal, process.Id.ToString(CultureInfo.InvariantCulture)]))
             {
                 await kill.WaitForExitAsync();
@@ -86,7 +90,11 @@ public sealed class InterruptedRunTests : IDisposable
         }
     }
 
-    private static async Task<bool> StagedFileAppearsAsync(Process process, string output)
+    /// <summary>
+    /// Polls on the test's own thread, not by awaited delays: during the full suite the thread pool
+    /// is busy with other tests, and a delayed continuation can miss the seconds of writing.
+    /// </summary>
+    private static bool StagedFileAppears(Process process, string output)
     {
         var deadline = Stopwatch.StartNew();
         while (!process.HasExited && deadline.Elapsed < TimeSpan.FromSeconds(60))
@@ -103,7 +111,7 @@ public sealed class InterruptedRunTests : IDisposable
                 // A stale staging folder removed between the two listings; look again.
             }
 
-            await Task.Delay(5);
+            Thread.Sleep(2);
         }
 
         return false;
