@@ -9,10 +9,10 @@ public sealed class DeckException : Exception
 {
     /// <summary>Creates an error at <paramref name="span"/>.</summary>
     public DeckException(SourceSpan span, string problem)
-        : base($"{span}: {problem}")
+        : base($"{span}: {OneLine(problem)}")
     {
         Span = span;
-        Problem = problem;
+        Problem = OneLine(problem);
     }
 
     /// <summary>Where the problem is.</summary>
@@ -20,4 +20,32 @@ public sealed class DeckException : Exception
 
     /// <summary>The message without the location prefix.</summary>
     public string Problem { get; }
+
+    /// <summary>
+    /// Control characters in echoed user text (a label or unit read from <c>"\n"</c>) written as
+    /// escapes, so that the error stays the one line <c>file:line:column: message</c> that editors
+    /// and shell tools parse.
+    /// </summary>
+    private static string OneLine(string problem)
+    {
+        if (!problem.Any(char.IsControl))
+        {
+            return problem;
+        }
+
+        var text = new System.Text.StringBuilder(problem.Length + 8);
+        foreach (var c in problem)
+        {
+            text.Append(c switch
+            {
+                '\n' => "\\n",
+                '\r' => "\\r",
+                '\t' => "\\t",
+                _ when char.IsControl(c) => $"\\u{(int)c:X4}",
+                _ => c.ToString(),
+            });
+        }
+
+        return text.ToString();
+    }
 }

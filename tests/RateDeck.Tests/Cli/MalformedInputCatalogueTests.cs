@@ -52,6 +52,8 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         new(Deck(units: "§enrgy = \"eV\""), null, "unknown key `enrgy` in [units]. Did you mean `energy`? Its keys are energy, time, model_time, output_time."),
         // Values of the wrong kind or range.
         new(Deck(units: "energy = \"§ev\""), null, "unknown energy unit \"ev\". Did you mean `eV`? Choose one of \"eV\", \"K\", \"cm-1\", \"J\", \"kJ/mol\", \"none\"."),
+        // An escaped newline in an echoed value stays one line (found by the fuzz test: the error broke across two lines).
+        new(Deck(units: "energy = \"§\\none\""), null, "unknown energy unit \"\\none\". Did you mean `none`? Choose one of \"eV\", \"K\", \"cm-1\", \"J\", \"kJ/mol\", \"none\"."),
         new(Deck(temperature: "kT = §-0.5"), null, "`temperature.kT` must be > 0, not -0.5"),
         new(Deck(temperature: "kT = §\"warm\""), null, "`temperature.kT` must be a number (like 2.5 or 1e-3), not a string"),
         new(Deck(run: "t_end = 1.0\noutputs = §0"), null, "`run.outputs` must be between 1 and 10000000, not 0"),
