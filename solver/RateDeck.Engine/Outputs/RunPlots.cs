@@ -157,7 +157,7 @@ public static class RunPlots
         var title = $"{deck.Title}: modes against the explicit stability intervals{(results.Coverage is null ? "" : " (extremes only)")}";
         return Plots.SpectrumModel(
             new PlotText(title, "mode (sorted by |λ|)", $"|λ·dt| at dt = {Number(results.Dt)} {deck.TimeUnit}"),
-            results.Eigenvalues, results.Dt, results.ZeroTolerance, PlotOptions.Default, places, results.Coverage is null ? null : $"partial: {results.Coverage}");
+            results.Eigenvalues, results.Dt, results.ZeroTolerance, PlotOptions.Default, places, results.Coverage is null ? null : $"extremes only: {results.Eigenvalues.Count} of {results.ModeCount} modes (spectrum.csv says which)");
     }
 
     /// <summary>Initial, final and steady-state distributions against the state coordinate.</summary>
