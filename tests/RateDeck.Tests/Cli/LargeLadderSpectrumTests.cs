@@ -23,13 +23,8 @@ public sealed class LargeLadderSpectrumTests
     [Fact]
     public void Stiffness_ByDefault_TakesTheExtremesAndGivesTheClosedFormFigures()
     {
-        using var folder = new TempFolder();
-        var deck = WriteDeck(folder);
+        var root = Json("stiffness");
 
-        var (code, output, error) = CliRunner.Run("stiffness", deck, "--json");
-
-        Assert.True(code == ExitCodes.Success, error);
-        var root = JsonDocument.Parse(output).RootElement;
         Assert.Contains("extremes only", root.GetProperty("spectrum_coverage").GetString(), StringComparison.Ordinal);
         AssertFigures(root);
     }
@@ -37,13 +32,8 @@ public sealed class LargeLadderSpectrumTests
     [Fact]
     public void Stiffness_WithFullSpectrum_ComputesEveryModeAndGivesTheSameFigures()
     {
-        using var folder = new TempFolder();
-        var deck = WriteDeck(folder);
+        var root = Json("stiffness", "--full-spectrum");
 
-        var (code, output, error) = CliRunner.Run("stiffness", deck, "--json", "--full-spectrum");
-
-        Assert.True(code == ExitCodes.Success, error);
-        var root = JsonDocument.Parse(output).RootElement;
         Assert.Equal(JsonValueKind.Null, root.GetProperty("spectrum_coverage").ValueKind);
         AssertFigures(root);
     }
@@ -84,17 +74,21 @@ public sealed class LargeLadderSpectrumTests
     [Fact]
     public void Check_ByDefault_PassesOnTheExtremesAndNamesThePath()
     {
-        using var folder = new TempFolder();
-        var deck = WriteDeck(folder);
+        var root = Json("check");
 
-        var (code, output, error) = CliRunner.Run("check", deck, "--json");
-
-        Assert.True(code == ExitCodes.Success, error);
-        var root = JsonDocument.Parse(output).RootElement;
         Assert.True(root.GetProperty("ok").GetBoolean());
         Assert.Equal(1, root.GetProperty("null_space_dimension").GetInt32());
         Assert.Contains("Sturm-count bisection", root.GetProperty("spectrum_path").GetString(), StringComparison.Ordinal);
         Assert.Contains("extremes only", root.GetProperty("spectrum_coverage").GetString(), StringComparison.Ordinal);
+    }
+
+    /// <summary>The JSON summary of <paramref name="verb"/> on the deck, with <paramref name="options"/>; the verb must succeed.</summary>
+    private static JsonElement Json(string verb, params string[] options)
+    {
+        using var folder = new TempFolder();
+        var (code, output, error) = CliRunner.Run([verb, WriteDeck(folder), "--json", .. options]);
+        Assert.True(code == ExitCodes.Success, error);
+        return JsonDocument.Parse(output).RootElement.Clone();
     }
 
     private static string WriteDeck(TempFolder folder)

@@ -18,10 +18,7 @@ public sealed class ExtremesSpectrumTests
     [Fact]
     public void ExtremesOnly_GivesTheWholeSpectrumsRadiusSlowestRateAndZeros()
     {
-        using var folder = new TempFolder();
-        var path = folder.File("ladder.toml");
-        File.WriteAllText(path, UniformLadder.Deck(_count, _slope, endTime: 1e6, outputs: 4));
-        var rates = DeckPipeline.Load(path, [], TestProvider.Selected).Rates;
+        var rates = LoadLadder();
         var balance = DetailedBalance.Analyze(rates);
 
         var whole = Spectrum.Compute(rates, TestProvider.Selected, balance, SpectrumExtent.Full);
@@ -51,14 +48,18 @@ public sealed class ExtremesSpectrumTests
     [Fact]
     public void Automatic_UpToTheLimit_ComputesEveryEigenvalue()
     {
-        using var folder = new TempFolder();
-        var path = folder.File("ladder.toml");
-        File.WriteAllText(path, UniformLadder.Deck(_count, _slope, endTime: 1e6, outputs: 4));
-        var rates = DeckPipeline.Load(path, [], TestProvider.Selected).Rates;
-
-        var spectrum = Spectrum.Compute(rates, TestProvider.Selected);
+        var spectrum = Spectrum.Compute(LoadLadder(), TestProvider.Selected);
 
         Assert.Null(spectrum.Coverage);
         Assert.Equal(_count, spectrum.Values.Length);
+    }
+
+    /// <summary>The ladder deck written to a file and loaded as the CLI would, with the provider under test.</summary>
+    private static RateDeck.Rates.RateMatrix LoadLadder()
+    {
+        using var folder = new TempFolder();
+        var path = folder.File("ladder.toml");
+        File.WriteAllText(path, UniformLadder.Deck(_count, _slope, endTime: 1e6, outputs: 4));
+        return DeckPipeline.Load(path, [], TestProvider.Selected).Rates;
     }
 }

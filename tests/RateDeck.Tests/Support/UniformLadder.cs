@@ -14,9 +14,10 @@ internal static class UniformLadder
     /// <summary>
     /// A deck as a user writes it: <paramref name="count"/> states 1 .. N, energies
     /// <paramref name="slope"/> x at kT = 1, a nearest-neighbour kernel 1 toward smaller energy
-    /// (the other way e^-slope by detailed balance), all population in the middle state.
+    /// (the other way e^-slope by detailed balance), all population in state <paramref name="start"/>
+    /// (default the middle one), output times spaced logarithmically from 1 or evenly from 0.
     /// </summary>
-    public static string Deck(int count, double slope, double endTime, int outputs) => FormattableString.Invariant($"""
+    public static string Deck(int count, double slope, double endTime, int outputs, int? start = null, bool logSpacing = true) => FormattableString.Invariant($"""
         format = 1
         title = "uniform ladder, {count} states"
 
@@ -43,13 +44,12 @@ internal static class UniformLadder
         band = 1
 
         [initial]
-        state = {count / 2}
+        state = {start ?? (count / 2)}
 
         [run]
         t_end = {endTime:R}
         outputs = {outputs}
-        spacing = "log"
-        t_first = 1.0
+        {(logSpacing ? "spacing = \"log\"\nt_first = 1.0" : "")}
         """);
 
     /// <summary>
