@@ -7,8 +7,8 @@ namespace RateDeck.Tests.Cli;
 
 /// <summary>
 /// What a run loads (issue 9 §6): `check` of a kernel deck (no rate file) pulls in neither the plotting
-/// libraries nor the CSV reader, and a deck that reads a rate file does load the CSV reader, which
-/// shows that the trace sees those loads. The program runs as its own process, as a user starts it,
+/// libraries nor the CSV library, and `run` of the same deck, which draws plots, does load the
+/// plotting libraries, which shows that the trace sees those loads. The program runs as its own process, as a user starts it,
 /// with <see cref="Program.TraceAssembliesVariable"/> set; the test host has every library loaded already.
 /// </summary>
 public sealed class StartupLoadTests
@@ -32,14 +32,17 @@ public sealed class StartupLoadTests
     }
 
     [Fact]
-    public async Task CheckOfADeckWithARateFile_LoadsTheCsvReaderOnly()
+    public async Task RunWithPlots_LoadsThePlottingLibraries()
     {
-        var (code, loaded) = await LoadedAssembliesAsync("check", CliRunner.DemoDeck("two-level.toml"));
+        using var folder = new TempFolder();
+        var deck = folder.File("starter.toml");
+        Assert.Equal(ExitCodes.Success, CliRunner.Run("init", deck).ExitCode);
+
+        var (code, loaded) = await LoadedAssembliesAsync("run", deck, "--out", folder.File("out"));
 
         Assert.Equal(ExitCodes.Success, code);
-        Assert.Contains("CsvHelper", loaded);
-        Assert.DoesNotContain("ScottPlot", loaded);
-        Assert.DoesNotContain("SkiaSharp", loaded);
+        Assert.Contains("ScottPlot", loaded);
+        Assert.Contains("SkiaSharp", loaded);
     }
 
     /// <summary>Runs the test's build of the program and returns the names of the assemblies it reported loading.</summary>
