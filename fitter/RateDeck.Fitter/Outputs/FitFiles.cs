@@ -5,6 +5,36 @@ namespace RateDeck.Fitting.Outputs;
 /// <summary>The CSV files of a fit: residuals and correlation matrix, each with the provenance header.</summary>
 public static class FitFiles
 {
+    /// <summary>The name of the one-row table of a fit's scalar results in its output folder (the same name as a run's).</summary>
+    public const string ResultsName = RunResultsFile.Name;
+
+    /// <summary>
+    /// results.csv: the scalar results of the fit in one row, so that a sweep's table is these rows
+    /// one under another: <c>converged</c> (true or false), <c>rss</c>, <c>residual_sd</c>,
+    /// <c>dof</c>, <c>iterations</c>, then per free parameter, in [fit.free] order,
+    /// <c>estimate_NAME</c> and <c>std_error_NAME</c> (empty when the data do not determine it).
+    /// </summary>
+    public static void WriteResults(string path, FitOutcome outcome)
+    {
+        ArgumentNullException.ThrowIfNull(outcome);
+        var report = outcome.Report;
+        var cells = new List<(string Name, string Text)>
+        {
+            ("converged", report.Converged ? "true" : "false"),
+            ("rss", CsvNumber.Format(report.Rss)),
+            ("residual_sd", CsvNumber.Format(report.ResidualSd)),
+            ("dof", report.Dof.ToString(System.Globalization.CultureInfo.InvariantCulture)),
+            ("iterations", report.Best.Iterations.ToString(System.Globalization.CultureInfo.InvariantCulture)),
+        };
+        foreach (var parameter in report.Parameters)
+        {
+            cells.Add(("estimate_" + parameter.Name, CsvNumber.Format(parameter.Value)));
+            cells.Add(("std_error_" + parameter.Name, double.IsNaN(parameter.StandardError) ? "" : CsvNumber.Format(parameter.StandardError)));
+        }
+
+        ResultCsv.WriteRecords(path, OutputHeader.For(outcome.Deck), [new("errors_from", report.ErrorSource)], [.. cells.Select(c => c.Name)], [[.. cells.Select(c => c.Text)]]);
+    }
+
     /// <summary>
     /// residuals.csv: one row per observed value: data set, column, time, observed, its standard
     /// deviation (empty when none), fitted, residual = observed - fitted and the weighted residual

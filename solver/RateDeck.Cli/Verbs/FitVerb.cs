@@ -21,9 +21,10 @@ public sealed class FitVerb : IVerb
     private readonly Option<int?> _starts = VerbOptions.WholeNumber("--starts", "N", "number of starting points: the deck's values, then seeded random ones (default: fit.starts or 1)", minimum: 1);
     private readonly Option<int?> _seed = VerbOptions.WholeNumber("--seed", "N", "seed of the random starting points (default: fit.seed or 1)", minimum: 0);
     private readonly Option<bool> _noPlots = VerbOptions.Switch("--no-plots", "write no PNG plot");
+    private readonly Option<string?> _statusFile = VerbOptions.Single<string?>("--status-file", "FILE", "also write FILE, one CSV row: the exit code and the diagnostics of this fit, whatever the outcome (the job lines of sweep --fit --emit-jobs use it)", text => text);
 
     /// <summary>Declares the verb and its options.</summary>
-    public FitVerb() => Command = DeckOptions.Command("fit", "fit kT, parameters, rates or initial populations to measured time series; estimates with errors", _out, _starts, _seed, _noPlots);
+    public FitVerb() => Command = DeckOptions.Command("fit", "fit kT, parameters, rates or initial populations to measured time series; estimates with errors", _out, _starts, _seed, _noPlots, _statusFile);
 
     /// <inheritdoc />
     public Command Command { get; }
@@ -31,38 +32,52 @@ public sealed class FitVerb : IVerb
     /// <inheritdoc />
     public int Execute(VerbArguments args, VerbContext context)
     {
-        var algebra = VerbSupport.Algebra(args);
-        var options = new FitOptions(args.Value(_starts), args.Value(_seed));
-        var outcome = Fitter.Fit(args.DeckPath, args.Overrides, algebra, options);
-        var folder = VerbSupport.OutputFolder(args.Value(_out), outcome.Deck);
-        Directory.CreateDirectory(folder);
-        var files = new List<string> { "residuals.csv", "correlation.csv" };
-        FitFiles.WriteResiduals(Path.Combine(folder, files[0]), outcome);
-        FitFiles.WriteCorrelation(Path.Combine(folder, files[1]), outcome);
-        if (!args.Has(_noPlots))
-        {
-            files.Add("fit.png");
-            FitPlot.Write(Path.Combine(folder, "fit.png"), outcome);
-        }
+        var settings = new FitSettings(args.Value(_out), args.Value(_starts), args.Value(_seed), !args.Has(_noPlots), args.Json, args.Quiet);
+        return args.Value(_statusFile) is { } statusFile
+            ? RunVerb.WithStatus("fit", statusFile, context, recorded => Execute(args.DeckPath, args.Overrides, VerbSupport.Algebra(args), settings, recorded))
+            : Execute(args.DeckPath, args.Overrides, VerbSupport.Algebra(args), settings, context);
+    }
 
+    /// <summary>Fits the deck at <paramref name="deckPath"/> with <paramref name="overrides"/>: the work of the verb after its command line is read (a sweep point runs it too).</summary>
+    internal static int Execute(string deckPath, IReadOnlyList<string> overrides, ILinearAlgebra algebra, FitSettings settings, VerbContext context)
+    {
+        var outcome = Fitter.Fit(deckPath, overrides, algebra, new FitOptions(settings.Starts, settings.Seed));
+        var folder = VerbSupport.OutputFolder(settings.Out, outcome.Deck);
         var notWrittenBack = new List<string>();
         string? fittedDeck = null;
-        if (outcome.Report.Converged)
+        IReadOnlyList<string> files;
+        // The files enter the folder all together or not at all, as a run's do; the fitted deck
+        // goes with them when --out names the folder, else beside the deck.
+        using (var staging = StagedOutputFolder.Begin(folder))
         {
-            var name = Path.GetFileNameWithoutExtension(args.DeckPath) + ".fitted.toml";
-            fittedDeck = args.Value(_out) is null ? Path.Combine(Path.GetDirectoryName(args.DeckPath) ?? "", name) : Path.Combine(folder, name);
-            notWrittenBack.AddRange(FittedDeckWriter.Write(args.DeckPath, fittedDeck, outcome.Problem.Parameters, outcome.Values, outcome.Deck.EnergyUnit));
+            FitFiles.WriteResiduals(staging.PathOf("residuals.csv"), outcome);
+            FitFiles.WriteCorrelation(staging.PathOf("correlation.csv"), outcome);
+            FitFiles.WriteResults(staging.PathOf(FitFiles.ResultsName), outcome);
+            if (settings.Plots)
+            {
+                FitPlot.Write(staging.PathOf("fit.png"), outcome);
+            }
+
+            if (outcome.Report.Converged)
+            {
+                var name = Path.GetFileNameWithoutExtension(deckPath) + ".fitted.toml";
+                fittedDeck = settings.Out is null ? Path.Combine(Path.GetDirectoryName(deckPath) ?? "", name) : Path.Combine(folder, name);
+                notWrittenBack.AddRange(FittedDeckWriter.Write(deckPath, settings.Out is null ? fittedDeck : staging.PathOf(name), outcome.Problem.Parameters, outcome.Values, outcome.Deck.EnergyUnit));
+            }
+
+            staging.Commit();
+            files = [.. staging.Written.Where(f => !f.EndsWith(".fitted.toml", StringComparison.Ordinal))];
         }
 
         var report = outcome.Report;
-        if (args.Json)
+        if (settings.Json)
         {
             var json = Json(outcome, algebra, folder, files);
             json["fitted_deck"] = fittedDeck;
             json["not_written_back"] = notWrittenBack;
             JsonSummary.Write(context.Out, json);
         }
-        else if (args.Quiet)
+        else if (settings.Quiet)
         {
             var estimates = report.Parameters.Select(p => $"{p.Name} = {Format.Number(p.Value)} +- {(double.IsNaN(p.StandardError) ? "?" : Format.Number(p.StandardError))}");
             context.Out.WriteLine($"fit {outcome.Deck.SourcePath}: {(report.Converged ? "converged" : "NOT CONVERGED")}, {string.Join(", ", estimates)}, RSS {Format.Number(report.Rss)}; wrote {files.Count + (fittedDeck is null ? 0 : 1)} files");
@@ -82,7 +97,7 @@ public sealed class FitVerb : IVerb
         return report.Converged ? ExitCodes.Success : ExitCodes.NotConverged;
     }
 
-    private static Dictionary<string, object?> Json(FitOutcome outcome, ILinearAlgebra algebra, string folder, List<string> files)
+    private static Dictionary<string, object?> Json(FitOutcome outcome, ILinearAlgebra algebra, string folder, IReadOnlyList<string> files)
     {
         var report = outcome.Report;
         var deck = outcome.Deck;
@@ -141,7 +156,7 @@ public sealed class FitVerb : IVerb
         _ => "not converged: the Jacobian could not be evaluated at an accepted point",
     };
 
-    private static void WriteSummary(TextWriter output, FitOutcome outcome, ILinearAlgebra algebra, string folder, List<string> files)
+    private static void WriteSummary(TextWriter output, FitOutcome outcome, ILinearAlgebra algebra, string folder, IReadOnlyList<string> files)
     {
         var report = outcome.Report;
         var deck = outcome.Deck;
@@ -189,3 +204,6 @@ public sealed class FitVerb : IVerb
         output.WriteLine($"wrote {files.Count} files to {folder}: {string.Join(", ", files)}");
     }
 }
+
+/// <summary>The options of a fit after its command line is read.</summary>
+internal sealed record FitSettings(string? Out, int? Starts, int? Seed, bool Plots, bool Json, bool Quiet);

@@ -46,21 +46,21 @@ public sealed class RunVerb : IVerb
             FullSpectrum = args.Has(_fullSpectrum),
         };
         return args.Value(_statusFile) is { } statusFile
-            ? WithStatus(statusFile, context, recorded => Execute(VerbSupport.Load(args), settings, recorded))
+            ? WithStatus("run", statusFile, context, recorded => Execute(VerbSupport.Load(args), settings, recorded))
             : Execute(VerbSupport.Load(args), settings, context);
     }
 
     /// <summary>
-    /// Runs <paramref name="body"/> as the verb <c>run</c> (every failure turned into its exit code
-    /// and message), then writes the exit code and what it printed on stderr to the status file
-    /// <paramref name="statusFile"/>, whatever the outcome: a sweep point, in process or as a job.
+    /// Runs <paramref name="body"/> as the verb <paramref name="verb"/> (every failure turned into its
+    /// exit code and message), then writes the exit code and what it printed on stderr to the status
+    /// file <paramref name="statusFile"/>, whatever the outcome: a sweep point, in process or as a job.
     /// </summary>
-    internal static int WithStatus(string statusFile, VerbContext context, Func<VerbContext, int> body)
+    internal static int WithStatus(string verb, string statusFile, VerbContext context, Func<VerbContext, int> body)
     {
         using var diagnostics = new StringWriter();
         using var both = new TeeWriter(context.Error, diagnostics);
         var recorded = context with { Error = both };
-        var code = Commands.Guard("run", both, () => body(recorded));
+        var code = Commands.Guard(verb, both, () => body(recorded));
         Sweeps.SweepFolder.WriteStatus(statusFile, code, diagnostics.ToString());
         return code;
     }

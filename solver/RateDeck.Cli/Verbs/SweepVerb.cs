@@ -26,10 +26,11 @@ public sealed class SweepVerb : IVerb
     private readonly Option<string?> _emitJobs = VerbOptions.Single<string?>("--emit-jobs", "DIR", "run nothing: write the sweep folder DIR with jobs.txt (one run command per point, for GNU parallel) and slurm-array.sh (sbatch --array); merge with ratedeck collect DIR", text => text);
     private readonly Option<bool> _exactOnly = VerbOptions.Switch("--exact-only", "run every point with run --exact-only");
     private readonly Option<bool> _plots = VerbOptions.Switch("--plots", "also draw each point's PNG plots (off by default: a sweep would draw four per point)");
+    private readonly Option<bool> _fit = VerbOptions.Switch("--fit", "fit at every point instead of running (the deck's [fit] table): the summary has each point's estimates, standard errors, RSS and convergence");
 
     /// <summary>Declares the verb and its options.</summary>
     public SweepVerb() => Command = DeckOptions.Command("sweep", "run the deck over a grid of values of deck keys, in parallel; one run folder per point and a summary table",
-        _vary, _zip, _jobs, _out, _emitJobs, _exactOnly, _plots);
+        _vary, _zip, _jobs, _out, _emitJobs, _exactOnly, _plots, _fit);
 
     /// <inheritdoc />
     public Command Command { get; }
@@ -53,15 +54,27 @@ public sealed class SweepVerb : IVerb
             throw new UsageException("--emit-jobs DIR names the sweep folder; leave out --out");
         }
 
+        var fit = args.Has(_fit);
+        if (fit && args.Has(_exactOnly))
+        {
+            throw new UsageException("--exact-only is an option of run; a fit keeps the exact path its trials need, so leave it out with --fit");
+        }
+
         var loaded = VerbSupport.Load(args);
         foreach (var axis in plan.Axes)
         {
             loaded.Deck.CheckOverrideKey(axis.Key, SourceSpan.None("--vary " + axis));
         }
 
-        string[] runArguments = [.. args.Has(_plots) ? [] : new[] { "--no-plots" }, .. args.Has(_exactOnly) ? ["--exact-only"] : Array.Empty<string>(),
+        if (fit)
+        {
+            // A deck without a usable [fit] table fails here once, located, not at every point.
+            _ = Fitting.Setup.FitSpecReader.Read(args.DeckPath, args.Overrides);
+        }
+
+        string[] pointArguments = [.. args.Has(_plots) ? [] : new[] { "--no-plots" }, .. args.Has(_exactOnly) ? ["--exact-only"] : Array.Empty<string>(),
             .. args.LinearAlgebra is { } provider ? ["--linalg", provider] : Array.Empty<string>()];
-        var manifest = SweepManifest.Create(plan, loaded.Deck.SourcePath, loaded.Deck.Sha256, loaded.Deck.Overrides, runArguments);
+        var manifest = SweepManifest.Create(plan, fit ? "fit" : "run", loaded.Deck.SourcePath, loaded.Deck.Sha256, loaded.Deck.Overrides, pointArguments);
         var folder = new SweepFolder(emit ?? args.Value(_out) ?? Path.Combine("ratedeck-out", Path.GetFileNameWithoutExtension(loaded.Deck.SourcePath) + "-sweep"));
         Begin(folder, manifest);
         if (emit is not null)
@@ -71,12 +84,14 @@ public sealed class SweepVerb : IVerb
         }
 
         var pending = manifest.Points.Zip(plan.Points()).Where(p => !folder.IsComplete(manifest, p.First)).Select(p => p.Second).ToArray();
-        var settings = new RunSettings(null, null, null, args.Has(_exactOnly), null, false, false, false, args.Has(_plots), false, false, false, false);
+        var runSettings = new RunSettings(null, null, null, args.Has(_exactOnly), null, false, false, false, args.Has(_plots), false, false, false, false);
+        var fitSettings = new FitSettings(null, null, null, args.Has(_plots), false, false);
         try
         {
             Parallel.ForEach(pending, new ParallelOptions { MaxDegreeOfParallelism = args.Value(_jobs) ?? Environment.ProcessorCount }, point =>
-                RunVerb.WithStatus(folder.StatusPath(point.Name), new VerbContext(TextWriter.Null, TextWriter.Null),
-                    recorded => RunVerb.Execute(loaded.With(point.Overrides), settings with { Out = folder.PointPath(point.Name) }, recorded)));
+                RunVerb.WithStatus(manifest.Verb, folder.StatusPath(point.Name), new VerbContext(TextWriter.Null, TextWriter.Null), recorded => fit
+                    ? FitVerb.Execute(args.DeckPath, [.. args.Overrides, .. point.Overrides.Select(o => o.ToString())], loaded.Algebra, fitSettings with { Out = folder.PointPath(point.Name) }, recorded)
+                    : RunVerb.Execute(loaded.With(point.Overrides), runSettings with { Out = folder.PointPath(point.Name) }, recorded)));
         }
         catch (AggregateException e)
         {

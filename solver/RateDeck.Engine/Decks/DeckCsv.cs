@@ -16,12 +16,19 @@ internal static class DeckCsv
     /// Reads the file at <paramref name="fullPath"/> (shown as <paramref name="displayPath"/>) and
     /// hands its records to <paramref name="readRows"/>; <paramref name="what"/> names the file in a
     /// message ("rate file"), at <paramref name="reference"/> (the deck's value naming it).
+    /// <paramref name="readPlain"/>, when given, is tried first on the checked bytes; it returns
+    /// null for a file it does not read as <paramref name="readRows"/> would.
     /// </summary>
-    public static T Read<T>(string displayPath, string fullPath, SourceSpan reference, string what, Func<CsvReader, CsvFile, T> readRows)
+    public static T Read<T>(string displayPath, string fullPath, SourceSpan reference, string what, Func<CsvReader, CsvFile, T> readRows, Func<byte[], T?>? readPlain = null)
+        where T : class
     {
         var looked = fullPath == displayPath ? "" : $"; looked for {fullPath}";
         var bytes = InputFile.ReadAllBytes(fullPath, reason => new DeckException(reference, $"cannot read the {what} {displayPath} ({reason}{looked})"));
         InputFile.CheckText(bytes, displayPath);
+        if (readPlain?.Invoke(bytes) is { } plain)
+        {
+            return plain;
+        }
 
         var options = new CsvReaderOptions
         {

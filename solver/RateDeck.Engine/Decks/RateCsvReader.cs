@@ -16,8 +16,13 @@ internal static class RateCsvReader
     /// <param name="Direction">For one-way data, the direction every row must go; null for a full matrix.</param>
     public sealed record Rules(TransferDirection? Direction);
 
+    /// <summary>
+    /// The rows of the file: by <see cref="PlainRateCsv"/> when the file is plain and valid (a dense
+    /// deck's file of millions of rows), else by the general CSV reader, which words any error.
+    /// </summary>
     public static IReadOnlyList<RateEntry> Read(string displayPath, string fullPath, SourceSpan reference, StateNames states, Rules rules) =>
-        DeckCsv.Read(displayPath, fullPath, reference, "rate file", (reader, file) => ReadRows(reader, file, states, rules));
+        DeckCsv.Read(displayPath, fullPath, reference, "rate file", (reader, file) => ReadRows(reader, file, states, rules),
+            bytes => PlainRateCsv.TryRead(displayPath, bytes, states, rules));
 
     private static RateEntryTable ReadRows(CsvReader reader, CsvFile file, StateNames states, Rules rules)
     {

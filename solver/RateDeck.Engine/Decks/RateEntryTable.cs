@@ -21,6 +21,27 @@ internal sealed class RateEntryTable(string file, int capacity) : IReadOnlyList<
         ? new RateEntry(_from[index], _to[index], _rate[index], new SourceSpan(file, _line[index], _column[index]))
         : throw new ArgumentOutOfRangeException(nameof(index));
 
+    /// <summary>
+    /// The from, to and rate columns of <paramref name="entries"/> (the first Count items of each
+    /// array count): a table's own arrays, shared, else copies. The assembler's loop reads these
+    /// instead of making a <see cref="RateEntry"/> per row.
+    /// </summary>
+    public static (int[] From, int[] To, double[] Rate, int Count) Columns(IReadOnlyList<RateEntry> entries)
+    {
+        if (entries is RateEntryTable table)
+        {
+            return (table._from, table._to, table._rate, table.Count);
+        }
+
+        var copy = new RateEntryTable("", entries.Count);
+        foreach (var entry in entries)
+        {
+            copy.Add(entry.From, entry.To, entry.Rate, entry.Span);
+        }
+
+        return Columns(copy);
+    }
+
     /// <summary>Appends a row whose rate cell is at <paramref name="span"/>.</summary>
     public void Add(int from, int to, double rate, SourceSpan span)
     {

@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Runtime.CompilerServices;
 using RateDeck.Text;
 
 namespace RateDeck.Decks;
@@ -20,15 +21,24 @@ internal sealed class StateNames
         {
             _index[labels[k]] = k;
         }
+
+        HasNumberLabel = labels.Any(label => label.Length > 0 && label.All(char.IsAsciiDigit));
     }
+
+    /// <summary>True when a label is all digits, so that a state number could also be read as a label (the label wins).</summary>
+    public bool HasNumberLabel { get; }
 
     /// <summary>Number of states.</summary>
     public int Count => _labels.Length;
 
     /// <summary>Resolves a label or a state number in range without reporting anything; false when <see cref="Resolve(string, SourceSpan)"/> would throw.</summary>
-    public bool TryResolve(string text, out int index)
+    public bool TryResolve(string text, out int index) => TryResolve(text.AsSpan(), out index);
+
+    /// <summary>As <see cref="TryResolve(string, out int)"/> for a cell's characters, looked up without making a string of them.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
+    public bool TryResolve(ReadOnlySpan<char> text, out int index)
     {
-        if (_index.TryGetValue(text, out index))
+        if (_index.GetAlternateLookup<ReadOnlySpan<char>>().TryGetValue(text, out index))
         {
             return true;
         }

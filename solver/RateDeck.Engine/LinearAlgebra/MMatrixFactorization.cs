@@ -16,7 +16,16 @@ namespace RateDeck.LinearAlgebra;
 /// factor is accurate to a few units of roundoff relative to itself, however far the rates spread,
 /// and a solve with a non-negative right-hand side is subtraction-free too, so each component of
 /// the solution is relatively accurate. No pivoting is needed: column dominance is inherited by
-/// every Schur complement, and the multipliers are at most 1.
+/// every Schur complement, and the multipliers are at most 1. L is stored as the magnitudes m_ik
+/// with the pivots beside them, and applied as m_ik (x_k / d_k), never as the quotient m_ik / d_k,
+/// which leaves the normal range of doubles when rates span 300 decades.
+/// <para>
+/// Pivots and Schur complements are sums of entries, so entries near the top of the double range
+/// overflow (found by the fuzz test: a rate of 1e308 in a pumped cascade gave infinite steady-state
+/// populations and stalled the implicit integrator). A matrix whose largest entry exceeds
+/// 2^<see cref="HeadroomExponent"/> is therefore factored as 2^-e A, exactly, with its largest entry
+/// brought to about that size, and a solve scales the right side alike.
+/// </para>
 /// </summary>
 public sealed class MMatrixFactorization
 {
@@ -27,13 +36,20 @@ public sealed class MMatrixFactorization
     private readonly double[] _factors;
     private readonly double[] _pivots;
 
+    /// <summary>The power of two A was multiplied by before elimination (1 for most matrices).</summary>
+    private readonly double _scale;
+
+    /// <summary>Entries are kept below 2^600 (about 4e180): far from overflow in sums of products, far from underflow in a scaled right side.</summary>
+    public const int HeadroomExponent = 600;
+
     /// <summary>
     /// Entry (i, j) lives at [j stride + i + origin]: dense column-major N x N is stride N, origin 0
     /// (bandwidth N - 1); a band of half-width b keeps column j's rows j - b .. j + b contiguous at
     /// [j (2b + 1)], i.e. stride 2b, origin b. Without pivoting the factors keep the band.
     /// </summary>
-    private MMatrixFactorization(int n, int bandwidth, int stride, int origin, double[] factors, double[] pivots)
+    private MMatrixFactorization(int n, int bandwidth, int stride, int origin, double[] factors, double[] pivots, double scale)
     {
+        _scale = scale;
         _n = n;
         _bandwidth = bandwidth;
         _stride = stride;
@@ -83,6 +99,7 @@ public sealed class MMatrixFactorization
 
     private static MMatrixFactorization Eliminate(int n, int bandwidth, int stride, int origin, double[] m, double[] excess)
     {
+        var scale = BringBelowHeadroom(m, excess);
         var pivots = new double[n];
         for (var k = 0; k < n; k++)
         {
@@ -101,25 +118,57 @@ public sealed class MMatrixFactorization
             }
 
             pivots[k] = pivot;
-            for (var i = 0; i < below.Length; i++)
-            {
-                below[i] /= pivot;
-            }
-
-            var share = excess[k] / pivot;
             for (var j = k + 1; j <= last; j++)
             {
                 var column = (j * stride) + origin;
                 var mkj = m[column + k];
                 if (mkj != 0)
                 {
-                    excess[j] += mkj * share;
-                    AddScaled(m.AsSpan(column + k + 1, last - k), below, mkj);
+                    // l_ik m_kj formed as m_ik (m_kj / d_k): the multiplier m_ik / d_k alone can fall
+                    // below the normal range when rates span 300 decades (then it keeps few bits), while
+                    // m_kj / d_k is small only where its product is negligible beside m_ij.
+                    var ratio = mkj / pivot;
+                    excess[j] += excess[k] * ratio;
+                    AddScaled(m.AsSpan(column + k + 1, last - k), below, ratio);
                 }
             }
         }
 
-        return new MMatrixFactorization(n, bandwidth, stride, origin, m, pivots);
+        return new MMatrixFactorization(n, bandwidth, stride, origin, m, pivots, scale);
+    }
+
+    /// <summary>Multiplies the entries by the power of two that brings the largest below 2^<see cref="HeadroomExponent"/>; returns it (1 when none is needed).</summary>
+    private static double BringBelowHeadroom(double[] m, double[] excess)
+    {
+        var largest = 0.0;
+        foreach (var value in m)
+        {
+            largest = Math.Max(largest, value);
+        }
+
+        foreach (var value in excess)
+        {
+            largest = Math.Max(largest, value);
+        }
+
+        var exponent = double.IsFinite(largest) ? Math.ILogB(largest) : 0;
+        if (exponent < HeadroomExponent)
+        {
+            return 1;
+        }
+
+        var scale = Math.ScaleB(1, HeadroomExponent - 1 - exponent);
+        Scale(m, scale);
+        Scale(excess, scale);
+        return scale;
+    }
+
+    private static void Scale(Span<double> values, double scale)
+    {
+        for (var i = 0; i < values.Length; i++)
+        {
+            values[i] *= scale;
+        }
     }
 
     /// <summary>Overwrites <paramref name="b"/> with A^-1 b.</summary>
@@ -130,13 +179,19 @@ public sealed class MMatrixFactorization
             throw new ArgumentException($"the right-hand side has {b.Length} entries, not {_n}", nameof(b));
         }
 
+        if (_scale != 1)
+        {
+            Scale(b, _scale);
+        }
+
         var n = _n;
         for (var k = 0; k < n - 1; k++)
         {
             if (b[k] != 0)
             {
+                // L's column k is kept as m_ik, not m_ik / d_k (see the elimination).
                 var last = Math.Min(n - 1, k + _bandwidth);
-                AddScaled(b[(k + 1)..(last + 1)], _factors.AsSpan((k * _stride) + _origin + k + 1, last - k), b[k]);
+                AddScaled(b[(k + 1)..(last + 1)], _factors.AsSpan((k * _stride) + _origin + k + 1, last - k), b[k] / _pivots[k]);
             }
         }
 

@@ -27,7 +27,7 @@ internal abstract class GeneratorBuilder
         int? band = coupling switch
         {
             KernelModel kernel => kernel.Band,
-            MeasuredOneWay oneWay => oneWay.Entries.Count == 0 ? null : oneWay.Entries.Max(e => Math.Abs(e.From - e.To)),
+            MeasuredOneWay oneWay => oneWay.Entries.Count == 0 ? null : WidestPair(oneWay.Entries),
             _ => null,
         };
         if (band is not { } b || b < 1 || n < SparseMinimumStates || b > SparseMaximumBand || (2L * b + 1) * 16 > n)
@@ -39,6 +39,19 @@ internal abstract class GeneratorBuilder
             CultureInfo.InvariantCulture,
             $"sparse: the coupling is banded (|i - j| <= {b}), so K has at most {2 * b + 1} entries per column instead of {n}");
         return (new Band(n, b), reason);
+    }
+
+    /// <summary>max |from - to| over the rows.</summary>
+    private static int WidestPair(IReadOnlyList<RateEntry> entries)
+    {
+        var (from, to, _, count) = RateEntryTable.Columns(entries);
+        var widest = 0;
+        for (var k = 0; k < count; k++)
+        {
+            widest = Math.Max(widest, Math.Abs(from[k] - to[k]));
+        }
+
+        return widest;
     }
 
     /// <summary>Sets K[row, column] (a later write replaces an earlier one).</summary>

@@ -7,7 +7,7 @@ namespace RateDeck.Sweeps;
 
 /// <summary>
 /// A sweep handed to existing batch engines instead of run in one process: <c>jobs.txt</c>, one
-/// shell command line per point (a complete <c>ratedeck run</c> that writes the point's folder and
+/// shell command line per point (a complete <c>ratedeck run</c>, or <c>fit</c>, that writes the point's folder and
 /// status file exactly as the in-process sweep does), for GNU parallel
 /// (<c>parallel --jobs 8 &lt; DIR/jobs.txt</c>), and <c>slurm-array.sh</c>, a Slurm job-array
 /// script whose task k runs line k + 1. Paths are written as given, relative to the folder the
@@ -30,7 +30,7 @@ public static partial class JobList
         ArgumentNullException.ThrowIfNull(manifest);
         ArgumentNullException.ThrowIfNull(folder);
         ArgumentNullException.ThrowIfNull(point);
-        var words = new List<string> { Command, "run", manifest.Deck };
+        var words = new List<string> { Command, manifest.Verb, manifest.Deck };
         foreach (var setting in manifest.Overrides.Concat(point.Set))
         {
             words.Add("--set");

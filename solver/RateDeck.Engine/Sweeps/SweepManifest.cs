@@ -17,15 +17,16 @@ public sealed record ManifestPoint(string Name, IReadOnlyList<string> Set, IRead
 /// </summary>
 /// <param name="Format">The manifest format, <see cref="CurrentFormat"/>.</param>
 /// <param name="ToolVersion">The program version that wrote it.</param>
+/// <param name="Verb">What each point runs: <c>run</c>, or <c>fit</c> (<c>sweep --fit</c>).</param>
 /// <param name="Deck">The deck path as given (it is recorded in every output, so jobs must name it the same way).</param>
 /// <param name="DeckSha256">The SHA-256 of the deck file's bytes.</param>
 /// <param name="Overrides">The <c>--set</c> overrides every point shares, before its own.</param>
-/// <param name="RunArguments">The further <c>run</c> options every point takes (<c>--no-plots</c>, <c>--exact-only</c>, <c>--linalg P</c>).</param>
+/// <param name="RunArguments">The further options of <paramref name="Verb"/> every point takes (<c>--no-plots</c>, <c>--exact-only</c>, <c>--linalg P</c>).</param>
 /// <param name="Axes">The <c>--vary</c> specifications, in order.</param>
 /// <param name="Zip">True when the axes are walked together.</param>
 /// <param name="Keys">The varied keys, in axis order: the value columns of the summary.</param>
 /// <param name="Points">The points in order.</param>
-public sealed record SweepManifest(int Format, string ToolVersion, string Deck, string DeckSha256, IReadOnlyList<string> Overrides,
+public sealed record SweepManifest(int Format, string ToolVersion, string Verb, string Deck, string DeckSha256, IReadOnlyList<string> Overrides,
     IReadOnlyList<string> RunArguments, IReadOnlyList<string> Axes, bool Zip, IReadOnlyList<string> Keys, IReadOnlyList<ManifestPoint> Points)
 {
     /// <summary>The file name in a sweep folder.</summary>
@@ -35,11 +36,11 @@ public sealed record SweepManifest(int Format, string ToolVersion, string Deck, 
     public const int CurrentFormat = 1;
 
     /// <summary>The manifest of <paramref name="plan"/> run on a deck.</summary>
-    public static SweepManifest Create(SweepPlan plan, string deck, string deckSha256, IReadOnlyList<string> overrides, IReadOnlyList<string> runArguments)
+    public static SweepManifest Create(SweepPlan plan, string verb, string deck, string deckSha256, IReadOnlyList<string> overrides, IReadOnlyList<string> runArguments)
     {
         ArgumentNullException.ThrowIfNull(plan);
         var points = plan.Points().Select(p => new ManifestPoint(p.Name, [.. p.Overrides.Select(o => o.ToString())], [.. p.ValueTexts])).ToArray();
-        return new SweepManifest(CurrentFormat, ToolInfo.Version, deck, deckSha256, overrides, runArguments,
+        return new SweepManifest(CurrentFormat, ToolInfo.Version, verb, deck, deckSha256, overrides, runArguments,
             [.. plan.Axes.Select(a => a.ToString())], plan.Zip, [.. plan.Axes.Select(a => a.Key)], points);
     }
 
@@ -59,7 +60,7 @@ public sealed record SweepManifest(int Format, string ToolVersion, string Deck, 
         try
         {
             var manifest = JsonSummary.Deserialize<SweepManifest>(File.ReadAllText(path));
-            return manifest is { Format: CurrentFormat, Points: not null, Keys: not null, Overrides: not null, RunArguments: not null, Axes: not null, Deck: not null, DeckSha256: not null, ToolVersion: not null }
+            return manifest is { Format: CurrentFormat, Verb: "run" or "fit", Points: not null, Keys: not null, Overrides: not null, RunArguments: not null, Axes: not null, Deck: not null, DeckSha256: not null, ToolVersion: not null }
                 ? manifest
                 : throw new SweepFolderException($"{path}: not a sweep manifest of format {CurrentFormat}; make it again with sweep --emit-jobs");
         }

@@ -19,6 +19,7 @@ var suites = new Dictionary<string, Action<BenchOptions>>
     ["fit"] = options => FitBench.Run(options.Runs, Console.Out),
     ["stiff"] = options => StiffBench.Run(options.Sizes, options.Runs, Console.Out),
     ["slow-modes"] = options => StiffBench.RunSlowRates(options.Sizes, options.Runs, Console.Out),
+    ["startup"] = options => StartupBench.Run(options.Runs, Console.Out),
 };
 
 if (args.Length == 0 || !suites.TryGetValue(args[0], out var suite))
