@@ -68,6 +68,7 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder, DeckRun run)
             ModeNumbers = spectrum.ModeNumbers,
             ModeCount = spectrum.ModeCount,
             Coverage = spectrum.Coverage,
+            ConservationDrift = run.ExactConservationDrift ?? 0,
         };
         foreach (var (name, write) in RunPlots.Files(loaded.Deck, loaded.States, results))
         {

@@ -148,6 +148,7 @@ public sealed class RunVerb : IVerb
             fields["steady_state"] = steady.Kind.ToString().ToLowerInvariant();
             fields["steady_state_distance"] = distance;
             fields["final_total_population"] = exact.Populations[^1].Sum();
+            fields["exact_conservation_drift"] = run.ExactConservationDrift;
             fields["output_times"] = run.Times.Length;
             fields["output_folder"] = outputFolder;
             fields["files"] = written;
@@ -192,7 +193,7 @@ public sealed class RunVerb : IVerb
             }
 
             context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Time(run.Times[^1], loaded.Deck.TimeUnit)}");
-            WriteResults(context.Out, loaded, exact, steady, difference, distance);
+            WriteResults(context.Out, loaded, exact, steady, difference, distance, run.ExactConservationDrift);
             if (run.ImplicitDifference is { } versus)
             {
                 context.Out.WriteLine($"  implicit vs exact: max |difference| {Format.Number(versus.MaxAbsolute)}, max relative {Format.Number(versus.MaxRelative)}, relative to the total {Format.Number(versus.MaxRelativeToTotal)} (at t = {Format.Time(versus.WorstTime, loaded.Deck.TimeUnit)}, state {loaded.States.Labels[versus.WorstState]})");
@@ -216,7 +217,18 @@ public sealed class RunVerb : IVerb
         return ExitCodes.Success;
     }
 
-    private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance)
+    /// <summary>
+    /// A note when the exact path kept a conserved total to worse than 1e-12 of it, a thousand times
+    /// the double's resolution (<see cref="LinearAlgebra.Precision.PopulationResolution"/>), where rounding of an
+    /// ordinary run never reaches: every population below the drift, relative to the total, is then
+    /// noise (the plots leave it out at any drift). Null otherwise.
+    /// </summary>
+    internal static string? ResolutionNote(double? drift) =>
+        drift is { } d && d > 1e-12
+            ? $"the exact path keeps the conserved total population only to {Format.Number(d)} of it (rounding in its solves on a stiff deck): populations below {Format.Number(d)} of the total are not resolved"
+            : null;
+
+    private static void WriteResults(TextWriter output, LoadedDeck loaded, Trajectory exact, SteadyStateResult steady, TrajectoryDifference? difference, double? distance, double? drift)
     {
         output.WriteLine();
         if (difference is not null)
@@ -230,6 +242,11 @@ public sealed class RunVerb : IVerb
         }
 
         output.WriteLine($"  total population at t_end: {Format.Number(exact.Populations[^1].Sum())}");
+        if (ResolutionNote(drift) is { } resolution)
+        {
+            output.WriteLine($"  note: {resolution}");
+        }
+
         output.WriteLine($"  steady state: {steady.Message}");
         if (distance is { } d)
         {

@@ -25,6 +25,9 @@ public sealed record RunResults(Trajectory Exact, Trajectory? Explicit, IReadOnl
 
     /// <summary>For a partial spectrum, which modes <see cref="Eigenvalues"/> holds (one line); null when it holds them all.</summary>
     public string? Coverage { get; init; }
+
+    /// <summary>The exact trajectory's <see cref="Propagation.ConservationDrift"/> (0 when the deck does not conserve its total): populations below it, relative to the total, are not resolved.</summary>
+    public double ConservationDrift { get; init; }
 }
 
 /// <summary>
@@ -33,8 +36,9 @@ public sealed record RunResults(Trajectory Exact, Trajectory? Explicit, IReadOnl
 /// <c>states.coordinate_unit</c>; each axis is logarithmic or linear as its grid is spaced (a log
 /// output grid or state grid gives a log axis), detected from the values for listed coordinates or
 /// times, and <c>plot.time_axis</c> / <c>plot.state_axis</c> override that. Populations below the
-/// propagator's resolution (<see cref="Precision.PopulationResolution"/> of the run's largest total)
-/// are not drawn as data.
+/// propagator's resolution (<see cref="Precision.PopulationResolution"/> of the run's largest total,
+/// or the measured <see cref="RunResults.ConservationDrift"/> of it when that is larger) are not
+/// drawn as data.
 /// </summary>
 public static class RunPlots
 {
@@ -79,13 +83,14 @@ public static class RunPlots
 
     /// <summary>
     /// The resolution floor of a run: <see cref="Precision.PopulationResolution"/> of the largest
-    /// total population over the exact trajectory.
+    /// total population over the exact trajectory, or that total times the measured
+    /// <see cref="RunResults.ConservationDrift"/> when the propagator kept the total less well.
     /// </summary>
-    public static PlotFloor Floor(Trajectory exact)
+    public static PlotFloor Floor(RunResults results)
     {
-        ArgumentNullException.ThrowIfNull(exact);
-        var largest = exact.Populations.Select(p => p.Where(double.IsFinite).Sum(Math.Abs)).DefaultIfEmpty(0).Max();
-        return new PlotFloor(Precision.PopulationResolution(largest));
+        ArgumentNullException.ThrowIfNull(results);
+        var largest = results.Exact.Populations.Select(p => p.Where(double.IsFinite).Sum(Math.Abs)).DefaultIfEmpty(0).Max();
+        return new PlotFloor(Math.Max(Precision.PopulationResolution(largest), results.ConservationDrift * largest));
     }
 
     /// <summary>The states drawn against time: the deck's plot_states, or all states up to <see cref="DefaultPlottedStates"/>, or five spread evenly over the grid.</summary>
@@ -117,7 +122,7 @@ public static class RunPlots
         ArgumentNullException.ThrowIfNull(states);
         ArgumentNullException.ThrowIfNull(results);
         var exact = results.Exact;
-        var mapOptions = new PlotOptions { XScale = TimeScale(deck), YScale = StateScale(deck), Floor = Floor(exact) };
+        var mapOptions = new PlotOptions { XScale = TimeScale(deck), YScale = StateScale(deck), Floor = Floor(results) };
         var files = new List<(string, Action<string>)>
         {
             ("populations.png", path => PopulationsModel(deck, states, results).Render(path, PlotOptions.Default)),
@@ -143,7 +148,7 @@ public static class RunPlots
             exact.Populations.Select(p => p[i]).ToArray(),
             results.Explicit?.Populations.Select(p => p[i]).ToArray())).ToList();
         return Plots.PopulationsModel(new PlotText($"{deck.Title}: populations", TimeAxisLabel(deck), "population"), exact.Times, series,
-            new PlotOptions { XScale = TimeScale(deck), Floor = Floor(exact) }, explicitName: $"{results.MethodName}, dt = {Number(results.Dt)} {deck.TimeUnit}");
+            new PlotOptions { XScale = TimeScale(deck), Floor = Floor(results) }, explicitName: $"{results.MethodName}, dt = {Number(results.Dt)} {deck.TimeUnit}");
     }
 
     /// <summary>
@@ -171,7 +176,7 @@ public static class RunPlots
         }
 
         return Plots.DistributionsModel(new PlotText($"{deck.Title}: distributions", StateAxisLabel(deck.Plot), "population"), states.Coordinates, curves,
-            new PlotOptions { XScale = StateScale(deck), Floor = Floor(exact) });
+            new PlotOptions { XScale = StateScale(deck), Floor = Floor(results) });
     }
 
     /// <summary>ln(n_i / g_i) against E_i at the end of the run with the equilibrium line; null when the deck gives no energies.</summary>
@@ -188,7 +193,7 @@ public static class RunPlots
         var points = new BoltzmannPoints(FinalLabel(deck, exact), states.Energies, states.LogWeights, exact.Populations[^1], states.LogEquilibrium, states.KT, energyUnit);
         return Plots.BoltzmannModel(
             new PlotText($"{deck.Title}: Boltzmann plot at the end of the run", energyUnit is null ? "energy E_i (model units)" : $"energy E_i ({energyUnit})", "ln(n_i / g_i)"),
-            points, new PlotOptions { Floor = Floor(exact) });
+            points, new PlotOptions { Floor = Floor(results) });
     }
 
     private static string FinalLabel(Deck deck, Trajectory exact) => $"final (exact), t = {Number(exact.Times[^1])} {deck.TimeUnit}";

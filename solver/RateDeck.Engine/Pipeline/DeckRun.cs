@@ -196,6 +196,9 @@ public sealed class DeckRun
     /// <exception cref="DeckException">A population overflows the largest double (pumping near 1e308, say): no number of it could be trusted.</exception>
     public Trajectory Exact => _exact ??= Finite(Propagate(ExactPropagator, "exact"));
 
+    /// <summary>How far <see cref="Exact"/> lets a conserved total move (<see cref="ConservationDrift"/>); null when the deck does not conserve it.</summary>
+    public double? ExactConservationDrift => ConservationDrift.Of(Loaded.Rates, Exact);
+
     /// <summary>The explicit propagator at <see cref="ExplicitStep"/>; null with <see cref="RunOptions.ExactOnly"/> or when <see cref="ExplicitDeclined"/>.</summary>
     public FixedStepPropagator? ExplicitPropagator => Options.ExactOnly || ExplicitDeclined is not null ? null : _explicitPropagator ??= ExplicitPropagatorChoice.Create(Loaded.Rates, Method, ExplicitStep);
 
