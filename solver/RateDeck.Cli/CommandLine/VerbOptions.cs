@@ -16,6 +16,10 @@ internal static class VerbOptions
     public static Option<bool> Switch(string name, string description) =>
         new(name) { Description = description, Arity = ArgumentArity.Zero };
 
+    /// <summary>--full-spectrum, shared by the verbs that compute the spectrum: every eigenvalue, whatever N.</summary>
+    public static Option<bool> FullSpectrum() =>
+        Switch("--full-spectrum", string.Create(System.Globalization.CultureInfo.InvariantCulture, $"compute every eigenvalue of K; above {Diagnostics.Spectrum.FullSpectrumStateLimit:N0} states a tridiagonal sparse deck otherwise gets the extremes only (spectral radius, slowest rates, zeros)"));
+
     /// <summary>
     /// An option given at most once with one value, turned into <typeparamref name="T"/> by
     /// <paramref name="parse"/>, which throws <see cref="UsageException"/> for text it refuses.

@@ -18,9 +18,10 @@ public sealed class CheckVerb : IVerb
 {
     // The options of check, declared once here.
     private readonly Option<string?> _out = VerbOptions.Folder("output folder for mechanics.csv of a deck with a Lagrangian (default ratedeck-out/<deck name>)");
+    private readonly Option<bool> _fullSpectrum = VerbOptions.FullSpectrum();
 
     /// <summary>Declares the verb and its options.</summary>
-    public CheckVerb() => Command = DeckOptions.Command("check", "assemble the rate matrix and check it: conservation, positivity, detailed balance, classes, null space", _out);
+    public CheckVerb() => Command = DeckOptions.Command("check", "assemble the rate matrix and check it: conservation, positivity, detailed balance, classes, null space", _out, _fullSpectrum);
 
     /// <inheritdoc />
     public Command Command { get; }
@@ -29,7 +30,7 @@ public sealed class CheckVerb : IVerb
     public int Execute(VerbArguments args, VerbContext context)
     {
         var loaded = VerbSupport.Load(args);
-        var report = new DeckRun(loaded).Check;
+        var report = new DeckRun(loaded, new RunOptions { FullSpectrum = args.Has(_fullSpectrum) }).Check;
         var mechanics = loaded.Mechanics is { } derived ? new MechanicsTable(loaded, derived) : null;
         var mechanicsFile = mechanics?.WriteCsv(VerbSupport.OutputFolder(args.Value(_out), loaded.Deck));
         if (args.Json)
@@ -48,6 +49,7 @@ public sealed class CheckVerb : IVerb
             fields["expected_null_space_dimension"] = report.ExpectedNullDimension;
             fields["zero_tolerance"] = report.Spectrum?.ZeroTolerance;
             fields["spectrum_path"] = report.Spectrum?.PathReason;
+            fields["spectrum_coverage"] = report.Spectrum?.Coverage;
             fields["equilibrium_agreement"] = report.EquilibriumAgreement.Select(a => a.MaxDifference).ToArray();
             fields["equilibrium_compared_with"] = MatrixChecks.ClaimedEquilibrium(loaded.Rates);
             fields["stationary_laws"] = report.EquilibriumAgreement.Select(a => a.StationaryLaw).ToArray();

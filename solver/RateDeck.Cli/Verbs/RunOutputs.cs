@@ -33,7 +33,8 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder, DeckRun run)
             WriteFile("differences.csv", path => ResultCsv.WriteDifferences(path, _header, labels, exact, explicitResult, deck.TimeUnit));
         }
 
-        WriteFile("spectrum.csv", path => ResultCsv.WriteSpectrum(path, _header, spectrum.ReportedValues, deck.TimeUnit, spectrum.ReportedZeroTolerance, spectrum.ReportedValuesNote));
+        WriteFile("spectrum.csv", path => ResultCsv.WriteSpectrum(path, _header, spectrum.ReportedValues, deck.TimeUnit, spectrum.ReportedZeroTolerance, spectrum.ReportedValuesNote,
+            spectrum.ModeNumbers, spectrum.Coverage));
         if (steady.Populations is { } steadyPopulations)
         {
             WriteFile("steady-state.csv", path => ResultCsv.WriteSteadyState(path, _header, labels, loaded.States.Coordinates, steadyPopulations, loaded.States.LogEquilibrium));
@@ -62,7 +63,12 @@ internal sealed class RunOutputs(LoadedDeck loaded, string folder, DeckRun run)
 
     private void WritePlots(Trajectory exact, Trajectory? explicitResult, Spectrum spectrum, SteadyStateResult steady, double dt, ExplicitMethod method)
     {
-        var results = new RunResults(exact, explicitResult, spectrum.Values, spectrum.ZeroTolerance, steady.Populations, dt, VerbSupport.MethodName(method));
+        var results = new RunResults(exact, explicitResult, spectrum.Values, spectrum.ZeroTolerance, steady.Populations, dt, VerbSupport.MethodName(method))
+        {
+            ModeNumbers = spectrum.ModeNumbers,
+            ModeCount = spectrum.ModeCount,
+            Coverage = spectrum.Coverage,
+        };
         foreach (var (name, write) in RunPlots.Files(loaded.Deck, loaded.States, results))
         {
             WriteFile(name, write);

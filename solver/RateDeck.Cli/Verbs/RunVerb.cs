@@ -27,11 +27,12 @@ public sealed class RunVerb : IVerb
     private readonly Option<bool> _requireAccuracy = VerbOptions.Switch("--require-accuracy", "exit 4 when explicit and exact differ by more than run.accuracy of the total");
     private readonly Option<bool> _noPlots = VerbOptions.Switch("--no-plots", "write no PNG plots");
     private readonly Option<bool> _writeRates = VerbOptions.Switch("--write-rates", "also write the assembled rate matrix K as rate-matrix.csv (from, to, rate triplets)");
+    private readonly Option<bool> _fullSpectrum = VerbOptions.FullSpectrum();
     private readonly Option<string?> _statusFile = VerbOptions.Single<string?>("--status-file", "FILE", "also write FILE, one CSV row: the exit code and the diagnostics of this run, whatever the outcome (the job lines of sweep --emit-jobs use it)", text => text);
 
     /// <summary>Declares the verb and its options.</summary>
     public RunVerb() => Command = DeckOptions.Command("run", "integrate explicitly and exactly side by side; write populations, differences, spectrum, steady state, results, plots",
-        _dt, _method, _out, _exactOnly, _exact, _implicit, _allowUnstable, _requireAccuracy, _noPlots, _writeRates, _statusFile);
+        _dt, _method, _out, _exactOnly, _exact, _implicit, _allowUnstable, _requireAccuracy, _noPlots, _writeRates, _fullSpectrum, _statusFile);
 
     /// <inheritdoc />
     public Command Command { get; }
@@ -40,7 +41,10 @@ public sealed class RunVerb : IVerb
     public int Execute(VerbArguments args, VerbContext context)
     {
         var settings = new RunSettings(args.Value(_dt), args.Value(_method), args.Value(_out), args.Has(_exactOnly), args.Value(_exact), args.Has(_implicit),
-            args.Has(_allowUnstable), args.Has(_requireAccuracy), !args.Has(_noPlots), args.Has(_writeRates), args.Json, args.Quiet, VerbSupport.ShowsProgress(args, context));
+            args.Has(_allowUnstable), args.Has(_requireAccuracy), !args.Has(_noPlots), args.Has(_writeRates), args.Json, args.Quiet, VerbSupport.ShowsProgress(args, context))
+        {
+            FullSpectrum = args.Has(_fullSpectrum),
+        };
         return args.Value(_statusFile) is { } statusFile
             ? WithStatus("run", statusFile, context, recorded => Execute(VerbSupport.Load(args), settings, recorded))
             : Execute(VerbSupport.Load(args), settings, context);
@@ -79,6 +83,7 @@ public sealed class RunVerb : IVerb
                 _ => null,
             },
             WithImplicit = settings.WithImplicit,
+            FullSpectrum = settings.FullSpectrum,
             Progress = label => new TerminalProgress($"{label,-8}", enabled: settings.Progress),
         });
         var explicitWanted = !run.Options.ExactOnly && run.ExplicitDeclined is null;
@@ -125,6 +130,7 @@ public sealed class RunVerb : IVerb
             var fields = VerbSupport.JsonFields(loaded);
             fields["propagator"] = exactPropagator.Name;
             fields["propagator_reason"] = exactPropagator.Reason;
+            fields["spectrum_coverage"] = run.Spectrum.Coverage;
             fields["explicit_method"] = explicitMethod;
             fields["explicit_declined"] = run.ExplicitDeclined;
             fields["implicit_steps"] = run.ImplicitPropagator?.Statistics;
@@ -178,6 +184,11 @@ public sealed class RunVerb : IVerb
             if (run.ImplicitPropagator is { } implicitPropagator && !ReferenceEquals(implicitPropagator, exactPropagator))
             {
                 context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
+            }
+
+            if (run.Spectrum.Coverage is { } coverage)
+            {
+                context.Out.WriteLine($"spectrum     {coverage}");
             }
 
             context.Out.WriteLine($"outputs      {run.Times.Length} times to t = {Format.Time(run.Times[^1], loaded.Deck.TimeUnit)}");
@@ -242,4 +253,8 @@ public sealed class RunVerb : IVerb
 /// <param name="Quiet">--quiet: one summary line.</param>
 /// <param name="Progress">Draw progress bars on the terminal.</param>
 internal sealed record RunSettings(StepRequest? Step, Decks.ExplicitMethod? Method, string? Out, bool ExactOnly, string? ExactPath, bool WithImplicit,
-    bool AllowUnstable, bool RequireAccuracy, bool Plots, bool WriteRates, bool Json, bool Quiet, bool Progress);
+    bool AllowUnstable, bool RequireAccuracy, bool Plots, bool WriteRates, bool Json, bool Quiet, bool Progress)
+{
+    /// <summary>--full-spectrum: every eigenvalue, whatever N.</summary>
+    public bool FullSpectrum { get; init; }
+}

@@ -18,9 +18,10 @@ public sealed class StiffnessVerb : IVerb
     private readonly Option<double?> _dt = VerbOptions.PositiveNumber("--dt", "X", "judge this explicit time step (exit 3 when unsafe for the method)");
     private readonly Option<double?> _tEnd = VerbOptions.PositiveNumber("--t-end", "T", "count steps to this time (default: the deck's run.t_end)");
     private readonly Option<Decks.ExplicitMethod?> _method = VerbOptions.Method("the explicit method the step is judged for (default: the deck's run.explicit)");
+    private readonly Option<bool> _fullSpectrum = VerbOptions.FullSpectrum();
 
     /// <summary>Declares the verb and its options.</summary>
-    public StiffnessVerb() => Command = DeckOptions.Command("stiffness", "spectral radius, stiffness ratio and explicit time-step limits, with a recommendation", _dt, _tEnd, _method);
+    public StiffnessVerb() => Command = DeckOptions.Command("stiffness", "spectral radius, stiffness ratio and explicit time-step limits, with a recommendation", _dt, _tEnd, _method, _fullSpectrum);
 
     /// <inheritdoc />
     public Command Command { get; }
@@ -34,6 +35,7 @@ public sealed class StiffnessVerb : IVerb
             Method = args.Value(_method),
             Dt = args.Value(_dt),
             EndTime = args.Value(_tEnd),
+            FullSpectrum = args.Has(_fullSpectrum),
         });
         var spectrum = run.Spectrum;
         var report = run.StepLimits;
@@ -53,6 +55,7 @@ public sealed class StiffnessVerb : IVerb
             fields["slow_rates"] = spectrum.SlowModes?.Modes.Select(m => m.Rate.Real).ToArray();
             fields["slow_rate_error_bounds"] = spectrum.SlowModes?.Modes.Select(m => m.ErrorBound).ToArray();
             fields["eigenvalue_absolute_accuracy"] = spectrum.AbsoluteAccuracy;
+            fields["spectrum_coverage"] = spectrum.Coverage;
             fields["stiffness_ratio"] = report.StiffnessRatio;
             fields["max_diagonal_rate"] = report.MaxDiagonalRate;
             fields["dt_euler_stable"] = report.EulerStable.MaxStep;

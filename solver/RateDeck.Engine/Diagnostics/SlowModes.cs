@@ -387,27 +387,50 @@ public static class SlowModes
 
         var order = Enumerable.Range(0, p).OrderByDescending(k => values[k].Magnitude).ThenBy(k => values[k].Imaginary).ToArray();
         var residuals = new double[p];
-        var m = q[0].Length;
         foreach (var k in order)
         {
-            var sum = 0.0;
-            for (var i = 0; i < m; i++)
-            {
-                var (bx, x) = (Complex.Zero, Complex.Zero);
-                for (var a = 0; a < p; a++)
-                {
-                    bx += z[a][i] * vectors[k][a];
-                    x += q[a][i] * vectors[k][a];
-                }
-
-                var r = bx - (values[k] * x);
-                sum += (weights?[i] ?? 1.0) * ((r.Real * r.Real) + (r.Imaginary * r.Imaginary));
-            }
-
-            residuals[k] = Math.Sqrt(sum);
+            residuals[k] = weights is null ? Residual(q, z, values[k], vectors[k]) : WeightedResidual(q, z, values[k].Real, [.. vectors[k].Select(v => v.Real)], weights);
         }
 
         return new Ritz([.. order.Select(k => values[k])], [.. order.Select(k => residuals[k])]);
+    }
+
+    /// <summary>||Z y - theta Q y|| for a complex Ritz pair (theta, y).</summary>
+    private static double Residual(double[][] q, double[][] z, Complex theta, Complex[] y)
+    {
+        var sum = 0.0;
+        for (var i = 0; i < q[0].Length; i++)
+        {
+            var (bx, x) = (Complex.Zero, Complex.Zero);
+            for (var a = 0; a < q.Length; a++)
+            {
+                bx += z[a][i] * y[a];
+                x += q[a][i] * y[a];
+            }
+
+            var r = bx - (theta * x);
+            sum += (r.Real * r.Real) + (r.Imaginary * r.Imaginary);
+        }
+
+        return Math.Sqrt(sum);
+    }
+
+    /// <summary>||Z y - theta Q y||_W for a real Ritz pair of the symmetric problem, in real arithmetic.</summary>
+    private static double WeightedResidual(double[][] q, double[][] z, double theta, double[] y, double[] weights)
+    {
+        var sum = 0.0;
+        for (var i = 0; i < q[0].Length; i++)
+        {
+            var r = 0.0;
+            for (var a = 0; a < q.Length; a++)
+            {
+                r += (z[a][i] - (theta * q[a][i])) * y[a];
+            }
+
+            sum += weights[i] * r * r;
+        }
+
+        return Math.Sqrt(sum);
     }
 
     /// <summary>Modified Gram-Schmidt, twice, in the W inner product; false when a vector vanishes (the block has fewer modes than vectors).</summary>

@@ -16,6 +16,19 @@ public enum SpectrumPath
     General,
 }
 
+/// <summary>How much of the spectrum <see cref="Spectrum.Compute(RateMatrix, ILinearAlgebra, BalanceReport, SpectrumExtent)"/> computes.</summary>
+public enum SpectrumExtent
+{
+    /// <summary>Every eigenvalue up to <see cref="Spectrum.FullSpectrumStateLimit"/> states; above it, for a tridiagonal sparse S, the extremes only.</summary>
+    Automatic,
+
+    /// <summary>Every eigenvalue, whatever N.</summary>
+    Full,
+
+    /// <summary>The extremes only whatever N, where S is sparse and tridiagonal (every eigenvalue otherwise).</summary>
+    Extremes,
+}
+
 /// <summary>
 /// The eigenvalues of K, computed once, with the facts every later stage asks for: spectral
 /// radius, null space, slowest decay and the path taken.
@@ -53,6 +66,21 @@ public sealed class Spectrum
     /// </summary>
     public const int ExtendedPrecisionStateLimit = 120;
 
+    /// <summary>
+    /// Above this many states a sparse tridiagonal S gets the extremes of its spectrum only
+    /// (<see cref="SpectrumExtent.Automatic"/>): all N eigenvalues cost O(N^2) operations (1 s
+    /// natively at 10,000 states and 4.2 s at 20,000, docs/performance.md; twice that managed),
+    /// while every stage after the spectrum needs only the spectral radius, the slowest rates and
+    /// the zero count, which bisection gives in O(N) each.
+    /// </summary>
+    public const int FullSpectrumStateLimit = 10_000;
+
+    /// <summary>Fastest and slowest decaying modes computed on the extremes-only path, each (the slow-mode iteration uses as many vectors).</summary>
+    public const int ExtremeModeCount = Diagnostics.SlowModes.Vectors;
+
+    /// <summary>The extremes-only path computes at most this many eigenvalues; a spectrum with more zero modes than leave room for the extremes is computed whole.</summary>
+    public const int MaxExtremeModes = 4 * ExtremeModeCount;
+
     /// <summary>Inverse-iteration steps for a null vector of a sparse S (see <see cref="ComputeBand"/>).</summary>
     private const int _inverseIterations = 8;
 
@@ -63,7 +91,7 @@ public sealed class Spectrum
     private readonly double[][] _nullBasis;
     private readonly int _nullDimension;
 
-    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, double[][]? nullBasis = null, ExtendedSymmetricEigenDecomposition? extended = null)
+    private Spectrum(RateMatrix rates, SpectrumPath path, string reason, Complex[] raw, SymmetricEigenDecomposition? symmetric, GeneralEigenDecomposition? general, double[][]? nullBasis = null, ExtendedSymmetricEigenDecomposition? extended = null, PartialSpectrum? partial = null)
     {
         _logEquilibrium = rates.States.LogEquilibrium;
         _rates = rates;
@@ -72,11 +100,15 @@ public sealed class Spectrum
         Symmetric = symmetric;
         General = general;
         Extended = extended;
-        Values = [.. raw.OrderBy(v => v.Real).ThenBy(v => v.Imaginary)];
+        var order = Enumerable.Range(0, raw.Length).OrderBy(c => raw[c].Real).ThenBy(c => raw[c].Imaginary).ToArray();
+        Values = [.. order.Select(c => raw[c])];
         Eigenvalues = [.. Values.Select(v => v.Real)];
+        ModeCount = partial?.ModeCount ?? raw.Length;
+        ModeNumbers = partial is null ? [.. Enumerable.Range(1, raw.Length)] : [.. order.Select(c => partial.ModeNumbers[c])];
+        Coverage = partial?.Coverage;
         SpectralRadius = raw.Length == 0 ? 0 : raw.Max(Complex.Abs);
         var epsilon = extended is null ? Precision.MachineEpsilon : 2 * DoubleDouble.Epsilon;
-        AbsoluteAccuracy = raw.Length * epsilon * SpectralRadius;
+        AbsoluteAccuracy = partial?.AbsoluteAccuracy ?? raw.Length * epsilon * SpectralRadius;
         ZeroTolerance = Precision.ZeroEigenvalueFactor * AbsoluteAccuracy;
         var nullColumns = Enumerable.Range(0, raw.Length).Where(c => Complex.Abs(raw[c]) <= ZeroTolerance).ToList();
         _nullDimension = nullColumns.Count;
@@ -88,7 +120,7 @@ public sealed class Spectrum
         var slowest = decaying.Count == 0 ? (double?)null : decaying.Min(v => -v.Real);
         if (_nullDimension > StructuralNullDimension)
         {
-            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy (N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
+            Unresolved = $"{Format.Count(_nullDimension, "eigenvalue is", "eigenvalues are")} zero to the solver's accuracy ({AccuracyName} = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}) where the structure has {Format.Count(StructuralNullDimension, "closed class", "closed classes")} without loss: {Format.Count(_nullDimension - StructuralNullDimension, "slow mode is", "slow modes are")} lost in rounding";
         }
         else if (_nullDimension < StructuralNullDimension)
         {
@@ -96,7 +128,7 @@ public sealed class Spectrum
         }
         else if (slowest is { } rate && AbsoluteAccuracy / rate > (extended is null ? SlowModeTolerance : ExtendedSlowModeTolerance))
         {
-            Unresolved = $"the slowest rate {Format.Rate(rate, rates.TimeUnit)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy N eps rho = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
+            Unresolved = $"the slowest rate {Format.Rate(rate, rates.TimeUnit)} is only {Format.Number(rate / AbsoluteAccuracy)} times the solver's absolute accuracy {AccuracyName} = {Format.Rate(AbsoluteAccuracy, rates.TimeUnit)}, so it carries a relative error up to {Format.Number(AbsoluteAccuracy / rate)}";
         }
 
         // A slowest rate read from a spectrum that lost modes to rounding would be a faster mode's.
@@ -109,8 +141,25 @@ public sealed class Spectrum
     /// <summary>Why that path was taken, one line.</summary>
     public string PathReason { get; }
 
-    /// <summary>All eigenvalues, sorted by real part ascending (most negative first), then imaginary part.</summary>
+    /// <summary>
+    /// The eigenvalues computed, sorted by real part ascending (most negative first), then
+    /// imaginary part: all of them, or on the extremes-only path (<see cref="IsPartial"/>) the
+    /// fastest and slowest modes and every zero, whose places in the whole spectrum are
+    /// <see cref="ModeNumbers"/>.
+    /// </summary>
     public Complex[] Values { get; }
+
+    /// <summary>N: the number of eigenvalues of K, computed or not.</summary>
+    public int ModeCount { get; }
+
+    /// <summary>For each entry of <see cref="Values"/> its mode number: its place, from 1, in the whole spectrum sorted as <see cref="Values"/> is.</summary>
+    public int[] ModeNumbers { get; }
+
+    /// <summary>Null when every eigenvalue was computed; else one line saying which modes <see cref="Values"/> holds and why only those.</summary>
+    public string? Coverage { get; }
+
+    /// <summary>True when <see cref="Values"/> holds only the extremes of the spectrum (<see cref="Coverage"/> says which).</summary>
+    public bool IsPartial => Coverage is not null;
 
     /// <summary>Real parts of <see cref="Values"/>, in the same order (ascending).</summary>
     public double[] Eigenvalues { get; }
@@ -131,8 +180,15 @@ public sealed class Spectrum
     /// </summary>
     public int StructuralNullDimension { get; }
 
-    /// <summary>N u rho: the absolute accuracy of the eigenvalues on the path taken, u = 2^-52 in double or 2^-103 in double-double.</summary>
+    /// <summary>
+    /// The absolute accuracy of the eigenvalues on the path taken: N u rho for a whole-spectrum
+    /// solver, u = 2^-52 in double or 2^-103 in double-double; c u ||S||_inf for the bisection of the
+    /// extremes-only path (<see cref="TridiagonalBisection.AccuracyFactor"/>).
+    /// </summary>
     public double AbsoluteAccuracy { get; }
+
+    /// <summary>How <see cref="AbsoluteAccuracy"/> is formed, for messages.</summary>
+    private string AccuracyName => IsPartial ? Invariant($"{TridiagonalBisection.AccuracyFactor} eps ||S||_inf") : "N eps rho";
 
     /// <summary>
     /// Null when the spectrum resolves every mode (its zero count matches <see cref="StructuralNullDimension"/>
@@ -154,7 +210,7 @@ public sealed class Spectrum
 
     /// <summary>
     /// The double-double decomposition of S when the double one could not resolve the slow modes
-    /// (see <see cref="Compute(RateMatrix, ILinearAlgebra, BalanceReport?)"/>); else null.
+    /// (see <see cref="Compute(RateMatrix, ILinearAlgebra, BalanceReport, SpectrumExtent)"/>); else null.
     /// </summary>
     public ExtendedSymmetricEigenDecomposition? Extended { get; }
 
@@ -228,7 +284,7 @@ public sealed class Spectrum
     /// <summary>The zero tolerance that goes with <see cref="ReportedValues"/>: <see cref="ZeroTolerance"/> when resolved, else 0 (their zeros are exact, their slow rates real ones however small).</summary>
     public double ReportedZeroTolerance => IsResolved ? ZeroTolerance : 0;
 
-    /// <summary>What <see cref="ReportedValues"/> holds, row by row (rows numbered from 1), for a file's notes; null when the spectrum is resolved.</summary>
+    /// <summary>What <see cref="ReportedValues"/> holds, mode by mode (<see cref="ModeNumbers"/>), for a file's notes; null when the spectrum is resolved.</summary>
     public string? ReportedValuesNote
     {
         get
@@ -242,11 +298,30 @@ public sealed class Spectrum
             var zeros = Math.Min(n, StructuralNullDimension);
             var modes = SlowModes!.Converged ? Math.Min(SlowModes.Modes.Count, n - zeros) : 0;
             var first = n - zeros - modes;
-            var solver = $"rows 1 to {first}: the eigen-solver's values, absolute error up to N eps rho = {Format.Number(AbsoluteAccuracy)}, nan where the value is rounding (within {Format.Number(ZeroTolerance)} of zero)";
-            var slow = modes > 0 ? $"; rows {first + 1} to {n - zeros}: {SlowModes.Description} (relative error at most {Format.Number(SlowModes.Modes.Take(modes).Max(m => m.ErrorBound))})" : $"; slow modes not resolved: {SlowModes.Failure ?? "none decays"}";
-            var structural = zeros > 0 ? $"; rows {n - zeros + 1} to {n}: zero by structure ({Format.Count(zeros, "closed class", "closed classes")} without loss)" : "";
+            var solver = $"{ModesAt(0, first)}: the eigen-solver's values, absolute error up to {AccuracyName} = {Format.Number(AbsoluteAccuracy)}, nan where the value is rounding (within {Format.Number(ZeroTolerance)} of zero)";
+            var slow = modes > 0 ? $"; {ModesAt(first, n - zeros)}: {SlowModes.Description} (relative error at most {Format.Number(SlowModes.Modes.Take(modes).Max(m => m.ErrorBound))})" : $"; slow modes not resolved: {SlowModes.Failure ?? "none decays"}";
+            var structural = zeros > 0 ? $"; {ModesAt(n - zeros, n)}: zero by structure ({Format.Count(zeros, "closed class", "closed classes")} without loss)" : "";
             return $"{solver}{slow}{structural}";
         }
+    }
+
+    /// <summary>The mode numbers of the entries <paramref name="from"/> to <paramref name="to"/> (exclusive) of <see cref="Values"/>, as runs: "modes 1 to 8 and 99985 to 99991".</summary>
+    private string ModesAt(int from, int to)
+    {
+        var runs = new List<string>();
+        for (var a = from; a < to;)
+        {
+            var b = a;
+            while (b + 1 < to && ModeNumbers[b + 1] == ModeNumbers[b] + 1)
+            {
+                b++;
+            }
+
+            runs.Add(a == b ? $"{ModeNumbers[a]}" : $"{ModeNumbers[a]} to {ModeNumbers[b]}");
+            a = b + 1;
+        }
+
+        return runs.Count == 0 ? "no modes" : $"{(to - from == 1 ? "mode" : "modes")} {string.Join(" and ", runs)}";
     }
 
     /// <summary>Non-zero eigenvalues whose real part is not below -<see cref="ZeroTolerance"/> (oscillating or growing modes); a sane generator has none.</summary>
@@ -274,8 +349,12 @@ public sealed class Spectrum
     public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra) =>
         Compute(rates, algebra, DetailedBalance.Analyze(rates));
 
-    /// <summary>As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance of <paramref name="rates"/> already measured.</summary>
-    public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport balance)
+    /// <summary>
+    /// As <see cref="Compute(RateMatrix, ILinearAlgebra)"/> with the balance of <paramref name="rates"/>
+    /// already measured; <paramref name="extent"/> says whether all eigenvalues are wanted or the
+    /// extremes may serve (<see cref="SpectrumExtent"/>).
+    /// </summary>
+    public static Spectrum Compute(RateMatrix rates, ILinearAlgebra algebra, BalanceReport balance, SpectrumExtent extent = SpectrumExtent.Automatic)
     {
         ArgumentNullException.ThrowIfNull(rates);
         ArgumentNullException.ThrowIfNull(balance);
@@ -293,7 +372,7 @@ public sealed class Spectrum
         var reason = $"{balance.SymmetryReason}: symmetric eigen-decomposition of S";
         if (rates.IsSparse)
         {
-            return ComputeBand(rates, algebra, reason);
+            return ComputeBand(rates, algebra, reason, extent);
         }
 
         // S is built only to be decomposed, so the provider may work in its storage.
@@ -339,12 +418,26 @@ public sealed class Spectrum
     /// leave 1e-16 of them. A block's vector counts as a null vector when its Rayleigh quotient is
     /// within the zero tolerance.
     /// </summary>
-    private static Spectrum ComputeBand(RateMatrix rates, ILinearAlgebra algebra, string reason)
+    private static Spectrum ComputeBand(RateMatrix rates, ILinearAlgebra algebra, string reason, SpectrumExtent extent)
     {
         var band = SymmetrizedGenerator.BuildBand(rates);
-        var values = algebra.SymmetricBandEigenvalues(band, out var method);
-        var rho = values.Length == 0 ? 0.0 : Math.Max(Math.Abs(values[0]), Math.Abs(values[^1]));
-        var tolerance = Precision.ZeroEigenvalueTolerance(rho, values.Length);
+        var extremes = Extremes(band, extent);
+        double[] values;
+        string what;
+        double tolerance;
+        if (extremes is { } found)
+        {
+            (values, what) = (found.Values, found.Method);
+            tolerance = Precision.ZeroEigenvalueFactor * found.Partial.AbsoluteAccuracy;
+        }
+        else
+        {
+            values = algebra.SymmetricBandEigenvalues(band, out var method);
+            what = $"eigenvalues of the band matrix S by {method}";
+            var rho = values.Length == 0 ? 0.0 : Math.Max(Math.Abs(values[0]), Math.Abs(values[^1]));
+            tolerance = Precision.ZeroEigenvalueTolerance(rho, values.Length);
+        }
+
         var basis = new List<double[]>();
         foreach (var closedClass in TransitionGraph.Classify(rates).Closed)
         {
@@ -361,9 +454,60 @@ public sealed class Spectrum
             }
         }
 
-        var sparseReason = $"{reason}; K is sparse ({rates.StorageReason}): eigenvalues of the band matrix S by {method}, null vectors by inverse iteration on each closed class";
-        return new Spectrum(rates, SpectrumPath.Symmetrized, sparseReason, [.. values.Select(v => new Complex(v, 0))], null, null, [.. basis]);
+        var sparseReason = $"{reason}; K is sparse ({rates.StorageReason}): {what}, null vectors by inverse iteration on each closed class";
+        return new Spectrum(rates, SpectrumPath.Symmetrized, sparseReason, [.. values.Select(v => new Complex(v, 0))], null, null, [.. basis], partial: extremes?.Partial);
     }
+
+    /// <summary>Which modes of a whole spectrum a partial one holds, and how accurate they are.</summary>
+    /// <param name="ModeCount">N.</param>
+    /// <param name="ModeNumbers">The mode number (from 1, ascending order of the whole spectrum) of each value computed, in the order computed.</param>
+    /// <param name="AbsoluteAccuracy">The absolute accuracy of every value computed.</param>
+    /// <param name="Coverage">One line: which modes, and why only those.</param>
+    private sealed record PartialSpectrum(int ModeCount, int[] ModeNumbers, double AbsoluteAccuracy, string Coverage);
+
+    /// <summary>
+    /// The extremes of the spectrum of a tridiagonal S by bisection (<see cref="TridiagonalBisection"/>),
+    /// when <paramref name="extent"/> allows them: the <see cref="ExtremeModeCount"/> fastest modes
+    /// (the fastest gives rho), every eigenvalue at or above -tolerance (the zeros, and any mode
+    /// that fails to decay) and the <see cref="ExtremeModeCount"/> slowest decaying ones below
+    /// them. Their absolute accuracy is <see cref="TridiagonalBisection.AccuracyFactor"/> eps
+    /// ||S||_inf, without the factor N of a whole-spectrum solver, and the zero tolerance is
+    /// <see cref="Precision.ZeroEigenvalueFactor"/> times it. Null when every eigenvalue is to be
+    /// computed: a wider band, <see cref="SpectrumExtent.Full"/>, N at most
+    /// <see cref="FullSpectrumStateLimit"/> unless the extremes are asked for, or more zero modes
+    /// than leave the extremes below <see cref="MaxExtremeModes"/> values.
+    /// </summary>
+    private static (double[] Values, string Method, PartialSpectrum Partial)? Extremes(SymmetricBand band, SpectrumExtent extent)
+    {
+        var n = band.Count;
+        const int k = ExtremeModeCount;
+        if (band.Bandwidth > 1 || extent == SpectrumExtent.Full || (extent == SpectrumExtent.Automatic && n <= FullSpectrumStateLimit) || n <= 2 * k)
+        {
+            return null;
+        }
+
+        var (d, e) = (band.Diagonal(), band.SubDiagonal());
+        var accuracy = TridiagonalBisection.AccuracyFactor * Precision.MachineEpsilon * TridiagonalBisection.NormInf(d, e);
+        var tolerance = Precision.ZeroEigenvalueFactor * accuracy;
+        var notDecaying = n - TridiagonalBisection.CountBelow(d, e, [-tolerance])[0];
+        var slow = Math.Min(k, n - notDecaying - k);
+        if (slow < 1 || notDecaying + slow + k > MaxExtremeModes)
+        {
+            return null;
+        }
+
+        int[] indices = [.. Enumerable.Range(0, k), .. Enumerable.Range(n - notDecaying - slow, notDecaying + slow)];
+        var values = TridiagonalBisection.Eigenvalues(d, e, indices);
+        var why = extent == SpectrumExtent.Extremes
+            ? "asked for"
+            : Invariant($"N = {n} is above {FullSpectrumStateLimit} states, where all N eigenvalues cost O(N^2) and no later stage needs them; all are computed on request");
+        var top = n - notDecaying - slow + 1;
+        var coverage = Invariant($"extremes only, {values.Length} of {n} modes: modes 1 to {k} (the fastest) and {top} to {n} (the {slow} slowest decaying{(notDecaying > 0 ? $" and {notDecaying} at or above zero" : "")}); {why}");
+        var method = Invariant($"the extremes of the spectrum of S only ({why}): the {k} fastest modes, the {slow} slowest decaying and {notDecaying} at or above zero by Sturm-count bisection on the tridiagonal S, O(N) each, absolute accuracy {TridiagonalBisection.AccuracyFactor} eps ||S||_inf = {Format.Number(accuracy)}");
+        return (values, method, new PartialSpectrum(n, [.. indices.Select(i => i + 1)], accuracy, coverage));
+    }
+
+    private static string Invariant(FormattableString text) => text.ToString(System.Globalization.CultureInfo.InvariantCulture);
 
     /// <summary>The unit eigenvector of the block of S on <paramref name="states"/> whose eigenvalue is nearest zero, and its Rayleigh quotient.</summary>
     private static (double[] Vector, double Rayleigh) SlowestVector(SymmetricBand band, int[] states, double tolerance)

@@ -175,8 +175,13 @@ public static class Plots
         SpectrumModel(text, eigenvalues, dt, zeroTolerance, options).Render(path, options);
     }
 
-    /// <summary>The model of <see cref="Spectrum"/>.</summary>
-    internal static PlotModel SpectrumModel(PlotText text, IReadOnlyList<Complex> eigenvalues, double dt, double zeroTolerance, PlotOptions options)
+    /// <summary>
+    /// The model of <see cref="Spectrum"/>. A partial spectrum gives <paramref name="places"/>, each
+    /// eigenvalue's place from 1 among all N sorted by |lambda|, and <paramref name="partial"/>, a
+    /// legend line saying which modes are drawn; otherwise the modes are numbered as they sort.
+    /// </summary>
+    internal static PlotModel SpectrumModel(PlotText text, IReadOnlyList<Complex> eigenvalues, double dt, double zeroTolerance, PlotOptions options,
+        IReadOnlyList<int>? places = null, string? partial = null)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
         if (!(dt > 0) || !double.IsFinite(dt))
@@ -184,10 +189,11 @@ public static class Plots
             throw new ArgumentOutOfRangeException(nameof(dt), dt, "The step must be positive and finite.");
         }
 
-        var z = eigenvalues.Where(v => double.IsFinite(v.Real) && double.IsFinite(v.Imaginary))
-            .Select(v => Complex.Abs(v) <= zeroTolerance ? Complex.Zero : v * dt)
-            .OrderBy(Complex.Abs).ToArray();
-        var modes = Enumerable.Range(1, z.Length).Select(k => (double)k).ToArray();
+        var drawn = Enumerable.Range(0, eigenvalues.Count).Where(k => double.IsFinite(eigenvalues[k].Real) && double.IsFinite(eigenvalues[k].Imaginary))
+            .Select(k => (Place: places?[k], Z: Complex.Abs(eigenvalues[k]) <= zeroTolerance ? Complex.Zero : eigenvalues[k] * dt))
+            .OrderBy(m => Complex.Abs(m.Z)).ToArray();
+        var z = drawn.Select(m => m.Z).ToArray();
+        var modes = drawn.Select((m, k) => (double)(m.Place ?? (k + 1))).ToArray();
         var size = z.Length <= 200 ? MarkerSize : 5;
         var heights = z.Select(Complex.Abs).ToArray();
         var x = PlotAxis.ForGrid(options.XScale, modes);
@@ -216,7 +222,7 @@ public static class Plots
             legend.Add(new LegendEntry($"{label} ({chosen.Length})", color, null, shape, size));
         }
 
-        var ends = new[] { 0.5, Math.Max(1, z.Length) + 0.5 };
+        var ends = new[] { 0.5, modes.DefaultIfEmpty(1).Max() + 0.5 };
         var intervals = new (string Label, double Bound, Color Color, LinePattern Pattern)[]
         {
             ("Euler: λ·dt in [-2, 0]", 2.0, Colors.Black, LinePattern.Dashed),
@@ -232,6 +238,11 @@ public static class Plots
         if (zeroModes > 0 && y.IsLog)
         {
             legend.Add(LegendEntry.Note($"{Count(zeroModes, "zero mode", "zero modes")} (λ = 0, stable) not drawn"));
+        }
+
+        if (partial is not null)
+        {
+            legend.Add(LegendEntry.Note(partial));
         }
 
         if (z.Any(v => Math.Abs(v.Imaginary) > zeroTolerance * dt))

@@ -70,13 +70,16 @@ public static class ResultCsv
     /// <c>eigenvalue</c> (per time unit) and <c>relaxation_time</c> = 1 / |lambda| (time unit),
     /// <c>inf</c> for a zero mode, i.e. |lambda| &lt;= <paramref name="zeroTolerance"/>. A
     /// <paramref name="modesNote"/> (where each row's value comes from) is written as a <c># modes:</c> line.
+    /// A partial spectrum gives each row's <paramref name="modeNumbers"/> (its place in the whole
+    /// spectrum, from 1) and a <paramref name="coverage"/> line saying which modes the file holds.
     /// </summary>
-    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<double> eigenvalues, string timeUnit, double zeroTolerance = 0, string? modesNote = null)
+    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<double> eigenvalues, string timeUnit, double zeroTolerance = 0, string? modesNote = null,
+        IReadOnlyList<int>? modeNumbers = null, string? coverage = null)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
-        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance, modesNote), ["mode", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance, modesNote, coverage), ["mode", "eigenvalue", "relaxation_time"], eigenvalues.Count, (k, row) =>
         {
-            row.WriteField(ModeNumber(k));
+            row.WriteField(ModeNumber(k, modeNumbers));
             row.WriteField(CsvNumber.Format(eigenvalues[k]));
             row.WriteField(CsvNumber.Format(RelaxationTime(eigenvalues[k], zeroTolerance)));
         });
@@ -86,22 +89,24 @@ public static class ResultCsv
     /// Complex eigenvalues (a generator without detailed balance): columns <c>mode</c> (from 1),
     /// <c>eigenvalue_re</c>, <c>eigenvalue_im</c> and <c>relaxation_time</c> = 1 / |Re lambda|, the
     /// decay time of the mode's amplitude, <c>inf</c> when |Re lambda| &lt;= <paramref name="zeroTolerance"/>.
-    /// A <paramref name="modesNote"/> (where each row's value comes from) is written as a <c># modes:</c> line.
+    /// A <paramref name="modesNote"/> (where each row's value comes from) is written as a <c># modes:</c> line;
+    /// <paramref name="modeNumbers"/> and <paramref name="coverage"/> as for real eigenvalues.
     /// </summary>
-    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<Complex> eigenvalues, string timeUnit, double zeroTolerance = 0, string? modesNote = null)
+    public static void WriteSpectrum(string path, OutputHeader header, IReadOnlyList<Complex> eigenvalues, string timeUnit, double zeroTolerance = 0, string? modesNote = null,
+        IReadOnlyList<int>? modeNumbers = null, string? coverage = null)
     {
         ArgumentNullException.ThrowIfNull(eigenvalues);
-        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance, modesNote), ["mode", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
+        WriteTable(path, header, SpectrumNotes(timeUnit, zeroTolerance, modesNote, coverage), ["mode", "eigenvalue_re", "eigenvalue_im", "relaxation_time"], eigenvalues.Count, (k, row) =>
         {
-            row.WriteField(ModeNumber(k));
+            row.WriteField(ModeNumber(k, modeNumbers));
             row.WriteField(CsvNumber.Format(eigenvalues[k].Real));
             row.WriteField(CsvNumber.Format(eigenvalues[k].Imaginary));
             row.WriteField(CsvNumber.Format(RelaxationTime(eigenvalues[k].Real, zeroTolerance)));
         });
     }
 
-    /// <summary>Modes are numbered from 1 in files, as a reader counts them.</summary>
-    private static string ModeNumber(int k) => (k + 1).ToString(CultureInfo.InvariantCulture);
+    /// <summary>Modes are numbered from 1 in files, as a reader counts them; a partial spectrum gives each row's number.</summary>
+    private static string ModeNumber(int k, IReadOnlyList<int>? modeNumbers) => (modeNumbers?[k] ?? (k + 1)).ToString(CultureInfo.InvariantCulture);
 
     /// <summary>
     /// The steady state beside the equilibrium: columns <c>label</c>, <c>coordinate</c>,
@@ -276,8 +281,9 @@ public static class ResultCsv
     private static double RelaxationTime(double rate, double zeroTolerance) =>
         Math.Abs(rate) <= zeroTolerance ? double.PositiveInfinity : 1.0 / Math.Abs(rate);
 
-    private static KeyValuePair<string, string>[] SpectrumNotes(string timeUnit, double zeroTolerance, string? modesNote) =>
+    private static KeyValuePair<string, string>[] SpectrumNotes(string timeUnit, double zeroTolerance, string? modesNote, string? coverage) =>
     [
+        .. coverage is null ? [] : new[] { KeyValuePair.Create("coverage", coverage) },
         KeyValuePair.Create("eigenvalue_unit", $"1/{timeUnit}"),
         KeyValuePair.Create("time_unit", timeUnit),
         KeyValuePair.Create("zero_tolerance", CsvNumber.Format(zeroTolerance)),

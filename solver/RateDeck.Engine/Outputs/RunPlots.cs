@@ -15,7 +15,17 @@ namespace RateDeck.Outputs;
 /// <param name="Dt">The explicit step chosen (or the one the explicit method would have taken).</param>
 /// <param name="MethodName">The explicit method's name, e.g. "rk4".</param>
 public sealed record RunResults(Trajectory Exact, Trajectory? Explicit, IReadOnlyList<System.Numerics.Complex> Eigenvalues, double ZeroTolerance,
-    double[]? Steady, double Dt, string MethodName);
+    double[]? Steady, double Dt, string MethodName)
+{
+    /// <summary>For a partial spectrum, each eigenvalue's mode number (from 1, ascending order of all N, as in spectrum.csv); null when <see cref="Eigenvalues"/> holds them all.</summary>
+    public IReadOnlyList<int>? ModeNumbers { get; init; }
+
+    /// <summary>N, the number of modes of K, computed or not.</summary>
+    public int ModeCount { get; init; }
+
+    /// <summary>For a partial spectrum, which modes <see cref="Eigenvalues"/> holds (one line); null when it holds them all.</summary>
+    public string? Coverage { get; init; }
+}
 
 /// <summary>
 /// The plots of a run, with their words and scales taken from the deck: the time axis is labelled
@@ -136,11 +146,19 @@ public static class RunPlots
             new PlotOptions { XScale = TimeScale(deck), Floor = Floor(exact) }, explicitName: $"{results.MethodName}, dt = {Number(results.Dt)} {deck.TimeUnit}");
     }
 
-    /// <summary>Each mode's |lambda dt| at the run's step against the Euler and RK4 stability intervals.</summary>
-    internal static PlotModel SpectrumModel(Deck deck, RunResults results) =>
-        Plots.SpectrumModel(
-            new PlotText($"{deck.Title}: modes against the explicit stability intervals", "mode (sorted by |λ|)", $"|λ·dt| at dt = {Number(results.Dt)} {deck.TimeUnit}"),
-            results.Eigenvalues, results.Dt, results.ZeroTolerance, PlotOptions.Default);
+    /// <summary>
+    /// Each mode's |lambda dt| at the run's step against the Euler and RK4 stability intervals; a
+    /// partial spectrum (real, non-positive: the symmetric path) is drawn at its modes' places among all
+    /// N by |lambda|, N + 1 minus the mode number, titled and noted as partial.
+    /// </summary>
+    internal static PlotModel SpectrumModel(Deck deck, RunResults results)
+    {
+        var places = results.Coverage is null ? null : results.ModeNumbers?.Select(m => results.ModeCount + 1 - m).ToArray();
+        var title = $"{deck.Title}: modes against the explicit stability intervals{(results.Coverage is null ? "" : " (extremes only)")}";
+        return Plots.SpectrumModel(
+            new PlotText(title, "mode (sorted by |λ|)", $"|λ·dt| at dt = {Number(results.Dt)} {deck.TimeUnit}"),
+            results.Eigenvalues, results.Dt, results.ZeroTolerance, PlotOptions.Default, places, results.Coverage is null ? null : $"extremes only: {results.Eigenvalues.Count} of {results.ModeCount} modes (spectrum.csv says which)");
+    }
 
     /// <summary>Initial, final and steady-state distributions against the state coordinate.</summary>
     internal static PlotModel DistributionsModel(Deck deck, StateSpace states, RunResults results)

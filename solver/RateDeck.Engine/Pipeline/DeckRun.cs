@@ -57,8 +57,8 @@ public sealed class DeckRun
     /// <summary>Detailed-balance measures of K; the policy for the symmetric paths travels with it.</summary>
     public BalanceReport Balance => _balance ??= DetailedBalance.Analyze(Loaded.Rates);
 
-    /// <summary>The spectrum of K (path decided by <see cref="Balance"/>); throws <see cref="ArgumentException"/> when K has non-finite entries.</summary>
-    public Spectrum Spectrum => _spectrum ??= Spectrum.Compute(Loaded.Rates, Loaded.Algebra, Balance);
+    /// <summary>The spectrum of K (path decided by <see cref="Balance"/>, all of it or its extremes by <see cref="RunOptions.FullSpectrum"/>); throws <see cref="ArgumentException"/> when K has non-finite entries.</summary>
+    public Spectrum Spectrum => _spectrum ??= Spectrum.Compute(Loaded.Rates, Loaded.Algebra, Balance, Options.FullSpectrum ? SpectrumExtent.Full : SpectrumExtent.Automatic);
 
     /// <summary>Every check of the matrix (its spectrum is left out when K has non-finite entries).</summary>
     public CheckReport Check => _check ??= MatrixChecks.Check(Loaded.Rates, Balance, MatrixChecks.HasNonFiniteEntries(Loaded.Rates) ? null : Spectrum);

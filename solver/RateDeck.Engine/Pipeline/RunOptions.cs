@@ -34,6 +34,13 @@ public sealed record RunOptions
     /// <summary>An exact path asked for instead of the automatic choice; null: chosen from the spectrum and the horizon.</summary>
     public ExactPathRequest? ExactPath { get; init; }
 
+    /// <summary>
+    /// Compute every eigenvalue of K whatever N; otherwise a sparse tridiagonal deck above
+    /// <see cref="Diagnostics.Spectrum.FullSpectrumStateLimit"/> states gets the extremes only
+    /// (<see cref="Diagnostics.SpectrumExtent.Automatic"/>).
+    /// </summary>
+    public bool FullSpectrum { get; init; }
+
     /// <summary>Also integrate with the implicit integrator, beside explicit and exact, and compare it with exact.</summary>
     public bool WithImplicit { get; init; }
 

@@ -113,49 +113,55 @@ public sealed class ContourExponentialPropagator : IPropagator
         var startNull = SplitOffNullSpace(start);
         var sourceNull = SplitOffNullSpace(source);
         double[][] rightSides = _driven ? [start, source] : [start];
-        var solver = new ComplexBandSolver(_band, rightSides.Length);
         var populations = new double[times.Count][];
         var throttle = new ProgressThrottle(progress);
-        var free = new double[n];
-        var driven = new double[n];
-        for (var m = 0; m < times.Count; m++)
+        var done = 0;
+        // The output times are independent: each is computed whole by one worker, in the same
+        // order of operations whatever the number of workers, so the result does not depend on it.
+        var workers = new ParallelOptions { MaxDegreeOfParallelism = Environment.ProcessorCount };
+        Parallel.For(0, times.Count, workers, () => (Solver: new ComplexBandSolver(_band, rightSides.Length), Free: new double[n], Driven: new double[n]), (m, _, worker) =>
         {
             var t = times[m];
-            if (t == 0)
+            populations[m] = t == 0 ? (double[])initial.Clone() : PopulationsAt(t, worker.Solver, rightSides, startNull, sourceNull, startScale, sourceScale, worker.Free, worker.Driven);
+            lock (throttle)
             {
-                populations[m] = (double[])initial.Clone();
-                continue;
+                throttle.Report(++done / (double)times.Count);
             }
 
-            AddNullSpace(free, startNull, 1.0);
-            AddNullSpace(driven, sourceNull, t);
-            for (var k = 0; k < _nodes.Length; k++)
-            {
-                var x = solver.Solve(_nodes[k], t, rightSides);
-                var w = _weights[k];
-                var wOverZ = t * w / _nodes[k];
-                for (var i = 0; i < n; i++)
-                {
-                    free[i] += Im(w, x[i * rightSides.Length]);
-                    if (_driven)
-                    {
-                        driven[i] += Im(wOverZ, x[(i * rightSides.Length) + 1]);
-                    }
-                }
-            }
-
-            var p = new double[n];
-            for (var i = 0; i < n; i++)
-            {
-                p[i] = _scaling.Unscale(free[i], i, startScale) + (_driven ? _scaling.Unscale(driven[i], i, sourceScale) : 0.0);
-            }
-
-            populations[m] = p;
-            throttle.Report((m + 1.0) / times.Count);
-        }
-
+            return worker;
+        }, _ => { });
         throttle.Complete();
         return new Trajectory(times.ToArray(), populations);
+    }
+
+    /// <summary>P(t) from the scaled start and source, with one worker's solver and scratch arrays.</summary>
+    private double[] PopulationsAt(double t, ComplexBandSolver solver, double[][] rightSides, double[] startNull, double[] sourceNull, double startScale, double sourceScale, double[] free, double[] driven)
+    {
+        var n = _band.Count;
+        AddNullSpace(free, startNull, 1.0);
+        AddNullSpace(driven, sourceNull, t);
+        for (var k = 0; k < _nodes.Length; k++)
+        {
+            var x = solver.Solve(_nodes[k], t, rightSides);
+            var w = _weights[k];
+            var wOverZ = t * w / _nodes[k];
+            for (var i = 0; i < n; i++)
+            {
+                free[i] += Im(w, x[i * rightSides.Length]);
+                if (_driven)
+                {
+                    driven[i] += Im(wOverZ, x[(i * rightSides.Length) + 1]);
+                }
+            }
+        }
+
+        var p = new double[n];
+        for (var i = 0; i < n; i++)
+        {
+            p[i] = _scaling.Unscale(free[i], i, startScale) + (_driven ? _scaling.Unscale(driven[i], i, sourceScale) : 0.0);
+        }
+
+        return p;
     }
 
     /// <summary>The nodes z_k and weights w_k of the upper half of the parabolic contour with <paramref name="count"/> nodes in all.</summary>

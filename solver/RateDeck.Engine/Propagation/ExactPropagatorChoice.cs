@@ -71,6 +71,12 @@ public static class ExactPropagatorChoice
         }
 
         spectrum ??= Spectrum.Compute(rates, la, balance);
+        // The contour path forms no eigenvalues, so slow modes a spectrum loses in rounding do not touch it.
+        if (balance.SymmetrizesWithDeckEquilibrium && rates.IsSparse && Contour(rates, balance.SymmetryReason, initial, out _) is { } contour)
+        {
+            return contour;
+        }
+
         if (StiffChoice(rates, spectrum, horizon) is { } stiff)
         {
             return stiff;
@@ -83,21 +89,12 @@ public static class ExactPropagatorChoice
 
     private static IPropagator ChooseSymmetric(RateMatrix rates, ILinearAlgebra la, string balance, double[]? initial, Spectrum? spectrum)
     {
-        if (rates.IsSparse)
+        if (rates.IsSparse && rates.Count > DenseStorage.StateLimit)
         {
-            var contour = new ContourExponentialPropagator(rates);
-            var contourEstimate = initial is null ? contour.WorstCaseRelativeError : contour.RelativeErrorEstimate(initial);
-            if (contourEstimate <= SymmetricEigenPropagator.RelativeErrorLimit)
-            {
-                contour.Reason = Format($"contour exponential: {balance}; K is {rates.StorageReason}, so no N x N eigenvectors are formed ({ContourExponentialPropagator.NodeCount / 2} band solves per output time, O(N) memory)");
-                return contour;
-            }
-
-            if (rates.Count > DenseStorage.StateLimit)
-            {
-                throw new DenseStorageException(Format(
-                    $"no exact path fits: pi spans {contour.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {Text.Format.Number(contourEstimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
-            }
+            // Reached only when the contour path was declined for its rounding (see Choose).
+            _ = Contour(rates, balance, initial, out var rejected);
+            throw new DenseStorageException(Format(
+                $"no exact path fits: pi spans {rejected.Propagator.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {Text.Format.Number(rejected.Estimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
         }
 
         var symmetric = spectrum?.Symmetric is { } decomposition
@@ -115,6 +112,21 @@ public static class ExactPropagatorChoice
         {
             Reason = Format($"Pade matrix exponential: {balance}, but pi spans {symmetric.EquilibriumDecades:F0} decades and the symmetric path's rounding for {start} is estimated at {Text.Format.Number(estimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)})"),
         };
+    }
+
+    /// <summary>The contour path for a sparse K when its rounding for <paramref name="initial"/> (the worst start when null) is within <see cref="SymmetricEigenPropagator.RelativeErrorLimit"/>; else null, with the propagator and its estimate in <paramref name="tried"/>.</summary>
+    private static ContourExponentialPropagator? Contour(RateMatrix rates, string balance, double[]? initial, out (ContourExponentialPropagator Propagator, double Estimate) tried)
+    {
+        var contour = new ContourExponentialPropagator(rates);
+        var estimate = initial is null ? contour.WorstCaseRelativeError : contour.RelativeErrorEstimate(initial);
+        tried = (contour, estimate);
+        if (estimate > SymmetricEigenPropagator.RelativeErrorLimit)
+        {
+            return null;
+        }
+
+        contour.Reason = Format($"contour exponential: {balance}; K is {rates.StorageReason}, so no N x N eigenvectors are formed ({ContourExponentialPropagator.NodeCount / 2} band solves per output time, O(N) memory)");
+        return contour;
     }
 
     private static IPropagator ChooseGeneral(RateMatrix rates, ILinearAlgebra la, string violation, Spectrum? spectrum)

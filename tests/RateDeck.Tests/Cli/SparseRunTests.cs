@@ -18,39 +18,7 @@ public sealed class SparseRunTests
         const int n = 1200;
         using var folder = new TempFolder();
         var deck = folder.File("ladder.toml");
-        File.WriteAllText(deck, $"""
-            format = 1
-            title = "sparse ladder test"
-
-            [units]
-            energy = "none"
-            time = "s"
-
-            [temperature]
-            kT = 1.0
-
-            [states]
-            spacing = "linear"
-            count = {n}
-            from = 1.0
-            to = {n}.0
-
-            [energies]
-            expression = "0"
-
-            [transfer]
-            kind = "kernel"
-            direction = "toward_smaller"
-            kernel = "1"
-            band = 1
-
-            [initial]
-            state = 1
-
-            [run]
-            t_end = 5000.0
-            outputs = 4
-            """);
+        File.WriteAllText(deck, UniformLadder.Deck(n, slope: 0, endTime: 5000, outputs: 4, start: 1, logSpacing: false));
 
         var (code, output, error) = CliRunner.Run("run", deck, "--json", "--no-plots", "--out", folder.File("out"));
 

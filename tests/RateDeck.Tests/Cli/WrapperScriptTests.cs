@@ -1,4 +1,5 @@
 using System.Diagnostics;
+using System.Reflection.PortableExecutable;
 using System.Text.Json;
 using RateDeck.Cli;
 using Xunit;
@@ -7,8 +8,9 @@ namespace RateDeck.Tests.Cli;
 
 /// <summary>
 /// The `ratedeck` script at the repository root, as README.md tells a user to run it: executable
-/// as it is checked out, it runs the built program with the arguments given and keeps stdout to the
-/// program (issue 9 §1). The suite runs after a build, so the script finds the program up to date.
+/// as it is checked out, it publishes the program once (ReadyToRun), runs it with the arguments
+/// given and keeps stdout to the program (issue 9 §1 and §6). The first test here publishes the
+/// program when the checkout has no up-to-date copy yet (a clean clone in CI), which takes a minute or two.
 /// </summary>
 public sealed class WrapperScriptTests
 {
@@ -16,9 +18,11 @@ public sealed class WrapperScriptTests
     public async Task Script_RunsTheProgramWithItsArgumentsAndExitCode()
     {
         var root = CliRunner.RepositoryRoot();
+        var build = await RunScriptAsync(root, null, "--version");
+        Assert.True(build.Code == ExitCodes.Success, build.Error);
 
-        var ok = await RunScriptAsync(root, "check", Path.Combine(root, "decks", "two-level.toml"), "--json");
-        var bad = await RunScriptAsync(root, "check", Path.Combine(root, "decks", "two-level.toml"), "--jsn");
+        var ok = await RunScriptAsync(root, null, "check", Path.Combine(root, "decks", "two-level.toml"), "--json");
+        var bad = await RunScriptAsync(root, null, "check", Path.Combine(root, "decks", "two-level.toml"), "--jsn");
 
         Assert.True(ok.Code == ExitCodes.Success, ok.Error);
         Assert.True(JsonDocument.Parse(ok.Out).RootElement.GetProperty("ok").GetBoolean());
@@ -27,7 +31,110 @@ public sealed class WrapperScriptTests
         Assert.Contains("`--json`", bad.Error, StringComparison.Ordinal);
     }
 
-    private static async Task<(int Code, string Out, string Error)> RunScriptAsync(string root, params string[] args)
+    /// <summary>
+    /// The program the script runs carries precompiled code: the CLI header's ManagedNativeHeader
+    /// points at a READYTORUN_HEADER whose signature is 0x00525452 ("RTR"), as the ReadyToRun format
+    /// description in the .NET runtime's design documents (readytorun-format.md) defines it; an
+    /// IL-only assembly from `dotnet build` has no such header.
+    /// </summary>
+    [Fact]
+    public async Task Script_RunsAReadyToRunBuild()
+    {
+        var root = CliRunner.RepositoryRoot();
+        var build = await RunScriptAsync(root, null, "--version");
+        Assert.True(build.Code == ExitCodes.Success, build.Error);
+
+        var published = Path.Combine(root, "solver", "RateDeck.Cli", "bin", "published");
+        foreach (var assembly in new[] { "ratedeck.dll", "RateDeck.Engine.dll", "Tomlyn.dll", "System.CommandLine.dll" })
+        {
+            Assert.True(ReadyToRunSignature(Path.Combine(published, assembly)) == 0x00525452, $"{assembly} is not ReadyToRun");
+        }
+
+        var plain = Path.Combine(AppContext.BaseDirectory, "RateDeck.Engine.dll");
+        Assert.Null(ReadyToRunSignature(plain));
+    }
+
+    [Fact]
+    public async Task FirstRun_BuildsQuietlyOnce_ThenRunsWithoutBuilding()
+    {
+        using var checkout = new ScratchCheckout();
+
+        var first = await RunScriptAsync(checkout.Root, checkout.Environment(), "check", "deck.toml", "--json");
+        var second = await RunScriptAsync(checkout.Root, checkout.Environment(), "--version");
+
+        Assert.Equal(0, first.Code);
+        Assert.Equal($"program {checkout.Program} check deck.toml --json\n", first.Out);
+        var lines = first.Error.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(2, lines.Length);
+        Assert.StartsWith("ratedeck: building the program", lines[0], StringComparison.Ordinal);
+        Assert.Equal("ratedeck: built; running", lines[1]);
+        Assert.Equal(0, second.Code);
+        Assert.Equal("", second.Error);
+        Assert.Equal(1, checkout.Builds());
+    }
+
+    [Fact]
+    public async Task SourceNewerThanTheProgram_Rebuilds()
+    {
+        using var checkout = new ScratchCheckout();
+        var first = await RunScriptAsync(checkout.Root, checkout.Environment(), "--version");
+        Assert.Equal(0, first.Code);
+
+        File.SetLastWriteTimeUtc(checkout.Program, DateTime.UtcNow.AddHours(-1));
+        var second = await RunScriptAsync(checkout.Root, checkout.Environment(), "--version");
+
+        Assert.Equal(0, second.Code);
+        Assert.StartsWith("ratedeck: building the program", second.Error, StringComparison.Ordinal);
+        Assert.Equal(2, checkout.Builds());
+    }
+
+    [Fact]
+    public async Task FailedBuild_ShowsTheBuildsMessages_AndRunsNothing()
+    {
+        using var checkout = new ScratchCheckout();
+        const string error = "Verbs/CheckVerb.cs(3,1): error CS1002: ; expected";
+
+        var run = await RunScriptAsync(checkout.Root, checkout.Environment(("FAKE_BUILD_ERROR", error)), "check", "deck.toml", "--json");
+
+        Assert.Equal(1, run.Code);
+        Assert.Equal("", run.Out);
+        Assert.Contains(error, run.Error, StringComparison.Ordinal);
+        Assert.Contains("ratedeck: the build failed", run.Error, StringComparison.Ordinal);
+        Assert.False(File.Exists(checkout.Program));
+    }
+
+    [Fact]
+    public async Task RunsStartedTogether_OnAFreshCheckout_BuildOnce()
+    {
+        using var checkout = new ScratchCheckout();
+        var environment = checkout.Environment(("FAKE_BUILD_SECONDS", "1"));
+
+        var runs = await Task.WhenAll(Enumerable.Range(0, 3).Select(_ => RunScriptAsync(checkout.Root, environment, "--version")));
+
+        Assert.All(runs, run => Assert.Equal(0, run.Code));
+        Assert.All(runs, run => Assert.Equal($"program {checkout.Program} --version\n", run.Out));
+        Assert.Equal(1, checkout.Builds());
+    }
+
+    /// <summary>The signature of the READYTORUN_HEADER the CLI header points at, or null for an IL-only assembly.</summary>
+    private static uint? ReadyToRunSignature(string assembly)
+    {
+        using var stream = File.OpenRead(assembly);
+        using var reader = new PEReader(stream);
+        var native = reader.PEHeaders.CorHeader!.ManagedNativeHeaderDirectory;
+        if (native.Size == 0)
+        {
+            return null;
+        }
+
+        reader.PEHeaders.TryGetDirectoryOffset(native, out var offset);
+        stream.Position = offset;
+        var signature = new byte[4];
+        stream.ReadExactly(signature);
+        return BitConverter.ToUInt32(signature);
+    }
+
+    private static async Task<(int Code, string Out, string Error)> RunScriptAsync(string root, IReadOnlyDictionary<string, string>? environment, params string[] args)
     {
         var info = new ProcessStartInfo(Path.Combine(root, "ratedeck")) { RedirectStandardOutput = true, RedirectStandardError = true, WorkingDirectory = root };
         foreach (var arg in args)
@@ -35,10 +142,86 @@ public sealed class WrapperScriptTests
             info.ArgumentList.Add(arg);
         }
 
+        foreach (var (name, value) in environment ?? new Dictionary<string, string>())
+        {
+            info.Environment[name] = value;
+        }
+
         using var process = Process.Start(info)!;
         var stdout = process.StandardOutput.ReadToEndAsync();
         var stderr = process.StandardError.ReadToEndAsync();
-        await process.WaitForExitAsync().WaitAsync(TimeSpan.FromMinutes(5));
+        await process.WaitForExitAsync().WaitAsync(TimeSpan.FromMinutes(8));
         return (process.ExitCode, await stdout, await stderr);
+    }
+
+    /// <summary>
+    /// A scratch folder laid out like the checkout as far as the script looks (the script, a CLI
+    /// project, a source file), with a stand-in `dotnet` first on PATH: `dotnet publish` counts its
+    /// calls, writes build chatter on both streams as msbuild does, waits FAKE_BUILD_SECONDS, then
+    /// fails with FAKE_BUILD_ERROR or writes the program; any other call stands for running the
+    /// program and prints its arguments.
+    /// </summary>
+    private sealed class ScratchCheckout : IDisposable
+    {
+        private const string _fakeDotnet = """
+            #!/usr/bin/env bash
+            if [ "$1" = publish ]; then
+                echo publish >> "$FAKE_BUILDS"
+                echo "  Determining projects to restore..."
+                echo "MSBUILD : message on stderr" >&2
+                sleep "${FAKE_BUILD_SECONDS:-0}"
+                if [ -n "${FAKE_BUILD_ERROR:-}" ]; then echo "$FAKE_BUILD_ERROR"; exit 1; fi
+                while [ "$1" != -o ]; do shift; done
+                mkdir -p "$2" && echo program > "$2/ratedeck.dll"
+                exit 0
+            fi
+            echo "program $*"
+
+            """;
+
+        public ScratchCheckout()
+        {
+            Root = Directory.CreateTempSubdirectory("ratedeck-wrapper-").FullName;
+            File.Copy(Path.Combine(CliRunner.RepositoryRoot(), "ratedeck"), Path.Combine(Root, "ratedeck"));
+            Directory.CreateDirectory(Path.Combine(Root, "solver", "RateDeck.Cli"));
+            Directory.CreateDirectory(Path.Combine(Root, "fitter"));
+            File.WriteAllText(Path.Combine(Root, "solver", "RateDeck.Cli", "RateDeck.Cli.csproj"), "<Project />\n");
+            File.WriteAllText(Path.Combine(Root, "solver", "RateDeck.Cli", "Program.cs"), "// source\n");
+            File.WriteAllText(Path.Combine(Root, "Directory.Build.props"), "<Project />\n");
+            Directory.CreateDirectory(Path.Combine(Root, "fake-bin"));
+            File.WriteAllText(Path.Combine(Root, "fake-bin", "dotnet"), _fakeDotnet.Replace("\r\n", "\n", StringComparison.Ordinal));
+            foreach (var script in new[] { Path.Combine(Root, "ratedeck"), Path.Combine(Root, "fake-bin", "dotnet") })
+            {
+                if (!OperatingSystem.IsWindows())
+                {
+                    File.SetUnixFileMode(script, UnixFileMode.UserRead | UnixFileMode.UserWrite | UnixFileMode.UserExecute);
+                }
+            }
+        }
+
+        public string Root { get; }
+
+        public string Program => Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "published", "ratedeck.dll");
+
+        private string BuildLog => Path.Combine(Root, "builds.txt");
+
+        public Dictionary<string, string> Environment(params (string Name, string Value)[] extra)
+        {
+            var environment = new Dictionary<string, string>
+            {
+                ["PATH"] = $"{Path.Combine(Root, "fake-bin")}:{System.Environment.GetEnvironmentVariable("PATH")}",
+                ["FAKE_BUILDS"] = BuildLog,
+            };
+            foreach (var (name, value) in extra)
+            {
+                environment[name] = value;
+            }
+
+            return environment;
+        }
+
+        public int Builds() => File.Exists(BuildLog) ? File.ReadAllLines(BuildLog).Length : 0;
+
+        public void Dispose() => Directory.Delete(Root, recursive: true);
     }
 }

@@ -38,23 +38,13 @@ public static class BenchDecks
 
         File.WriteAllText(Path.Combine(folder, "rates.csv"), csv.ToString());
         var slope = (EnergySlope / n).ToString("R", CultureInfo.InvariantCulture);
-        File.WriteAllText(Path.Combine(folder, "deck.toml"), $$"""
-            format = 1
-            title = "bench: dense detailed-balance deck, {{n}} states"
-
-            {{LinearGrid(n, slope)}}
-            [transfer]
+        WriteLinearDeck(Path.Combine(folder, "deck.toml"), $"bench: dense detailed-balance deck, {n} states", n, slope, """
             kind = "one_way"
             direction = "toward_smaller"
             csv = "rates.csv"
-
-            [initial]
-            state = {{n}}
-
-            [run]
+            """, n, """
             t_end = 2.0
             outputs = 100
-
             """);
         File.WriteAllText(Path.Combine(folder, "problem.json"), $$"""
             {"n": {{n}}, "energy_slope": {{slope}}, "kT": 1.0, "t_end": 2.0, "outputs": 100, "initial_state": {{n}}}
@@ -74,26 +64,16 @@ public static class BenchDecks
         Directory.CreateDirectory(folder);
         var slope = (2.0 / n).ToString("R", CultureInfo.InvariantCulture);
         var end = (n * (double)n / 4).ToString("R", CultureInfo.InvariantCulture);
-        File.WriteAllText(Path.Combine(folder, "ladder.toml"), $$"""
-            format = 1
-            title = "bench: nearest-neighbour ladder, {{n}} states"
-
-            {{LinearGrid(n, slope)}}
-            [transfer]
+        WriteLinearDeck(Path.Combine(folder, "ladder.toml"), $"bench: nearest-neighbour ladder, {n} states", n, slope, """
             kind = "kernel"
             direction = "toward_smaller"
             kernel = "1"
             band = 1
-
-            [initial]
-            state = {{n / 2}}
-
-            [run]
-            t_end = {{end}}
-            outputs = {{outputs}}
+            """, n / 2, $"""
+            t_end = {end}
+            outputs = {outputs}
             spacing = "log"
             t_first = 1.0
-
             """);
         return Path.Combine(folder, "ladder.toml");
     }
@@ -156,7 +136,48 @@ public static class BenchDecks
         return path;
     }
 
-    /// <summary>The tables both bench decks share: model units, kT = 1, n linear states 1..n, E = slope x.</summary>
+    /// <summary>
+    /// A kernel deck of <paramref name="n"/> states for the start-up suite: E_i = 4 x_i / N,
+    /// W(j -> i) = exp(-(x_j - x_i) / 3) toward the smaller state, the reverse completed by detailed
+    /// balance, all population starting in the top state. Small enough that the work is negligible
+    /// and what is timed is the program starting.
+    /// </summary>
+    public static string WriteKernel(string folder, int n)
+    {
+        Directory.CreateDirectory(folder);
+        var slope = (EnergySlope / n).ToString("R", CultureInfo.InvariantCulture);
+        return WriteLinearDeck(Path.Combine(folder, "kernel.toml"), $"bench: kernel deck, {n} states", n, slope, """
+            kind = "kernel"
+            direction = "toward_smaller"
+            kernel = "exp(-(x - y) / 3)"
+            """, n, """
+            t_end = 2.0
+            outputs = 20
+            """);
+    }
+
+    /// <summary>Writes a deck on the linear grid of <see cref="LinearGrid"/> with the given [transfer] and [run] bodies and all population in state <paramref name="initialState"/>.</summary>
+    private static string WriteLinearDeck(string path, string title, int n, string slope, string transfer, int initialState, string run)
+    {
+        File.WriteAllText(path, $"""
+            format = 1
+            title = "{title}"
+
+            {LinearGrid(n, slope)}
+            [transfer]
+            {transfer}
+
+            [initial]
+            state = {initialState}
+
+            [run]
+            {run}
+
+            """);
+        return path;
+    }
+
+    /// <summary>The tables the generated decks share: model units, kT = 1, n linear states 1..n, E = slope x.</summary>
     private static string LinearGrid(int n, string slope) => $"""
         [units]
         energy = "none"

@@ -13,11 +13,13 @@ var suites = new Dictionary<string, Action<BenchOptions>>
     ["run-stages"] = options => RunPhases.Run(options.Sizes.Max(), Console.Out),
     ["memory"] = options => RunBench.Run(options.Sizes, options.Runs, withReference: false, Console.Out),
     ["ladder"] = options => LadderBench.Run(options.Sizes, options.Runs, Console.Out),
+    ["ladder-stages"] = options => LadderBench.Stages(BenchDecks.WriteLadder(Path.Combine(Path.GetTempPath(), $"ratedeck-bench-ladder-{options.Sizes.Max()}"), options.Sizes.Max(), outputs: 50), options.Sizes.Max(), RateDeck.LinearAlgebra.LinearAlgebraProviders.Select(null, out _), Console.Out),
     ["kernel-assembly"] = options => KernelAssemblyBenchmark.Run(options.Sizes.Max()),
     ["trial"] = options => TrialBench.Run(options.Runs, Console.Out),
     ["fit"] = options => FitBench.Run(options.Runs, Console.Out),
     ["stiff"] = options => StiffBench.Run(options.Sizes, options.Runs, Console.Out),
     ["slow-modes"] = options => StiffBench.RunSlowRates(options.Sizes, options.Runs, Console.Out),
+    ["startup"] = options => StartupBench.Run(options.Runs, Console.Out),
 };
 
 if (args.Length == 0 || !suites.TryGetValue(args[0], out var suite))

@@ -113,15 +113,26 @@ public static class Repository
     public static string Root { get; } = FindRoot();
 
     /// <summary>
-    /// The ratedeck program built in Release (<c>dotnet build -c Release solver/RateDeck.Cli</c>),
-    /// or the path in RATEDECK_BENCH_CLI.
+    /// The installed program: the ReadyToRun build the <c>ratedeck</c> script publishes into
+    /// solver/RateDeck.Cli/bin/published (run <c>./ratedeck --version</c> once to make it), or the
+    /// path in RATEDECK_BENCH_CLI.
     /// </summary>
     public static string Cli()
     {
         var path = Environment.GetEnvironmentVariable("RATEDECK_BENCH_CLI")
-            ?? Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "Release", "net10.0", "ratedeck");
+            ?? Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "published", "ratedeck");
+        return File.Exists(path) ? path : throw new InvalidOperationException($"{path} not found: run ./ratedeck --version once (it publishes the program)");
+    }
+
+    /// <summary>The plain (JIT-only) build of the program, <c>dotnet build -c Release solver/RateDeck.Cli</c>.</summary>
+    public static string PlainCli()
+    {
+        var path = Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "Release", "net10.0", "ratedeck");
         return File.Exists(path) ? path : throw new InvalidOperationException($"{path} not found: run dotnet build -c Release solver/RateDeck.Cli first");
     }
+
+    /// <summary>The <c>ratedeck</c> script at the repository root, which publishes the program when its sources changed.</summary>
+    public static string Script => Path.Combine(Root, "ratedeck");
 
     private static string FindRoot()
     {
