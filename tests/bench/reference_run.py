@@ -1,7 +1,7 @@
 #!/usr/bin/python3
 """Reference for the whole-process `run` bench: the same work as
 `ratedeck run deck.toml --exact-only --no-plots` on the dense deck that RateDeck.Bench writes
-(tests/bench/RateDeck.Bench/BenchDecks.cs), done with Debian's NumPy 1.24 / SciPy 1.10:
+(tests/bench/RateDeck.Bench/BenchDecks.cs), done with Debian's Python 3.11.2, NumPy 1.24.2 and SciPy 1.10.1 (the run bench prints the versions it ran with):
 load the rate CSV, complete the reverse rates by detailed balance in log space, build the
 diagonal, symmetrize S = D^-1/2 K D^1/2, eigh(S), propagate to the 101 output times as
 P(t) = D^1/2 V exp(L t) V^T D^-1/2 P(0) (one matrix product for all times), write a CSV.

@@ -65,6 +65,13 @@ public static class LargeCompletedRates
         var states = rates.States;
         var x = states.Coordinates;
         var logPi = states.LogEquilibrium;
+
+        // No pair's factor ln pi_to - ln pi_from exceeds the spread of ln pi: within the threshold, no entry needs a look.
+        if (logPi.Length == 0 || logPi.Max() - logPi.Min() <= LogThreshold)
+        {
+            return ([], 0);
+        }
+
         var found = new List<LargeCompletedRate>();
         rates.ForEachOffDiagonal((to, from, rate) =>
         {

@@ -21,15 +21,37 @@ public static class CsvNumber
     /// <summary>Not-a-number as written.</summary>
     public const string NotANumber = "nan";
 
+    /// <summary>Room for the longest text <see cref="Format"/> writes ("-2.2250738585072014E-308" is 24 characters).</summary>
+    public const int MaxLength = 32;
+
     /// <summary>The text for <paramref name="value"/>.</summary>
-    public static string Format(double value) => value switch
+    public static string Format(double value)
     {
-        double.PositiveInfinity => PositiveInfinity,
-        double.NegativeInfinity => NegativeInfinity,
-        _ when double.IsNaN(value) => NotANumber,
-        0.0 => "0",
-        _ => value.ToString("R", CultureInfo.InvariantCulture),
-    };
+        Span<char> text = stackalloc char[MaxLength];
+        return new string(text[..Write(value, text)]);
+    }
+
+    /// <summary>Writes the text of <see cref="Format"/> into <paramref name="destination"/> (at least <see cref="MaxLength"/> long) and returns its length: no string made.</summary>
+    public static int Write(double value, Span<char> destination)
+    {
+        var text = value switch
+        {
+            double.PositiveInfinity => PositiveInfinity,
+            double.NegativeInfinity => NegativeInfinity,
+            _ when double.IsNaN(value) => NotANumber,
+            0.0 => "0",
+            _ => null,
+        };
+        if (text is not null)
+        {
+            text.CopyTo(destination);
+            return text.Length;
+        }
+
+        return value.TryFormat(destination, out var written, "R", CultureInfo.InvariantCulture)
+            ? written
+            : throw new ArgumentException($"{MaxLength} characters hold any double's text; the destination is shorter", nameof(destination));
+    }
 
     /// <summary>
     /// Parses text written by <see cref="Format"/> (or any invariant-culture number, and the

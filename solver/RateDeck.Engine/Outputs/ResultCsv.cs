@@ -298,22 +298,40 @@ public static class ResultCsv
         }
     }
 
+    /// <summary>
+    /// A table of times by states. Its rows hold numbers only, which never need quoting, so they
+    /// are formatted into one buffer per row and written as they are (a dense run's populations
+    /// are N x 101 numbers); the header row of labels goes through the CSV writer.
+    /// </summary>
     private static void WriteTimeTable(string path, OutputHeader header, IReadOnlyList<string> stateLabels, double[] times, string timeUnit,
         string quantity, Func<int, int, double> value)
     {
         KeyValuePair<string, string>[] notes = [KeyValuePair.Create("time_unit", timeUnit), KeyValuePair.Create("values", quantity)];
-        WriteTable(path, header, notes, ["time", .. stateLabels], times.Length, (k, row) =>
+        WriteTable(path, header, notes, ["time", .. stateLabels], 0, (_, _) => { }, writer =>
         {
-            row.WriteField(CsvNumber.Format(times[k]));
-            for (var i = 0; i < stateLabels.Count; i++)
+            var row = new char[(stateLabels.Count + 1) * (CsvNumber.MaxLength + 1)];
+            for (var k = 0; k < times.Length; k++)
             {
-                row.WriteField(CsvNumber.Format(value(k, i)));
+                var length = CsvNumber.Write(times[k], row);
+                for (var i = 0; i < stateLabels.Count; i++)
+                {
+                    row[length++] = ',';
+                    length += CsvNumber.Write(value(k, i), row.AsSpan(length));
+                }
+
+                row[length++] = '\n';
+                writer.Write(row, 0, length);
             }
         });
     }
 
+    /// <summary>
+    /// The provenance header or the notes, the column names, <paramref name="rowCount"/> rows by
+    /// <paramref name="writeRow"/>, then <paramref name="writeRawRows"/> when given: rows written
+    /// straight to the text after the CSV writer's, for cells that never need quoting.
+    /// </summary>
     private static void WriteTable(string path, OutputHeader? header, IEnumerable<KeyValuePair<string, string>> notes,
-        string[] columnNames, int rowCount, Action<int, CsvWriter> writeRow)
+        string[] columnNames, int rowCount, Action<int, CsvWriter> writeRow, Action<TextWriter>? writeRawRows = null)
     {
         AtomicFile.Write(path, writer =>
         {
@@ -334,6 +352,7 @@ public static class ResultCsv
                 csv.EndRecord();
             }
             csv.Flush();
+            writeRawRows?.Invoke(writer);
         });
     }
 }
