@@ -86,12 +86,13 @@ public class ExpressionCompilerTests
             return GC.GetAllocatedBytesForCurrentThread() - before;
         }
 
-        // The first pass lets the runtime tier the loop up (it may allocate a few bytes of its own
-        // on this thread); a per-evaluation allocation would show as at least 2.4 MB per pass.
+        // The first pass lets the runtime tier the loop up; it may still allocate a few kilobytes of
+        // its own on this thread (tier-up and on-stack replacement: 6968 bytes in one CI run of a
+        // like test), while a per-evaluation allocation would show as at least 2.4 MB per pass.
         Allocated();
         var allocated = Allocated();
 
-        Assert.True(allocated < 1024, $"{allocated} bytes over 100000 evaluations");
+        Assert.True(allocated < 65_536, $"{allocated} bytes over 100000 evaluations");
         Assert.True(double.IsFinite(sum));
     }
 
