@@ -170,8 +170,9 @@ internal static class PlotCanvas
 
     /// <summary>
     /// Puts the legend inside the data area, in the first corner (upper right, upper left, lower
-    /// right, lower left) that covers no drawn point, or outside on the right when every corner
-    /// would hide data. One trial render tells the legend's size and where the data area is.
+    /// right, lower left) that covers no drawn point, or outside when every corner would hide data:
+    /// on the right, or below when it is wider than a third of the image. One trial render tells the
+    /// legend's size and where the data area is.
     /// </summary>
     public static void PlaceLegend(Plot plot, List<LegendItem> items, List<Coordinates> drawn, PlotOptions options)
     {
@@ -204,6 +205,14 @@ internal static class PlotCanvas
                 return;
             }
         }
+        // A legend wider than a third of the image would squeeze the data into a strip beside it:
+        // such a legend goes below the data instead.
+        if (legendSize.Width > _layoutWidth / 3)
+        {
+            plot.ShowLegend(Edge.Bottom);
+            return;
+        }
+
         plot.ShowLegend(Edge.Right);
         // The title is centred over the data area, which the legend beside it narrows.
         plot.RenderInMemory(options.Width, options.Height);

@@ -90,12 +90,15 @@ public class ExplicitMethodTests
         }
 
         // Warm-up of both step counts: first-call and tiering costs of the runtime are not the
-        // method's; a per-step allocation would show as at least 100000 bytes.
+        // method's. The smallest object is 24 bytes, so a per-step allocation would show as at
+        // least 2.4 MB over 100000 steps; the runtime's own work on this thread while the loop
+        // runs (tier-up and on-stack replacement of the hot method) adds a few kilobytes at times
+        // (6968 against 608 bytes in one CI run), which the 64 KB bound leaves out.
         Allocated(0.1);
         Allocated(1e-5);
         var few = Allocated(0.1);
         var many = Allocated(1e-5);
-        Assert.True(many - few < 256, $"{few} bytes for 10 steps, {many} bytes for 100000 steps");
+        Assert.True(many - few < 65_536, $"{few} bytes for 10 steps, {many} bytes for 100000 steps");
     }
 
     [Fact]
