@@ -58,6 +58,8 @@ public sealed class FitVerb : IVerb
                 FitPlot.Write(staging.PathOf("fit.png"), outcome);
             }
 
+            // The summary lists these files and names the fitted deck on a line of its own.
+            files = [.. staging.Written];
             if (outcome.Report.Converged)
             {
                 var name = Path.GetFileNameWithoutExtension(deckPath) + ".fitted.toml";
@@ -66,7 +68,6 @@ public sealed class FitVerb : IVerb
             }
 
             staging.Commit();
-            files = [.. staging.Written.Where(f => !f.EndsWith(".fitted.toml", StringComparison.Ordinal))];
         }
 
         var report = outcome.Report;

@@ -223,7 +223,7 @@ public sealed class RunVerb : IVerb
     /// ordinary run never reaches: every population below the drift, relative to the total, is then
     /// noise (the plots leave it out at any drift). Null otherwise.
     /// </summary>
-    internal static string? ResolutionNote(double? drift) =>
+    private static string? ResolutionNote(double? drift) =>
         drift is { } d && d > 1e-12
             ? $"the exact path keeps the conserved total population only to {Format.Number(d)} of it (rounding in its solves on a stiff deck): populations below {Format.Number(d)} of the total are not resolved"
             : null;
