@@ -55,7 +55,7 @@ public sealed class CheckVerb : IVerb
             fields["stationary_laws"] = report.EquilibriumAgreement.Select(a => a.StationaryLaw).ToArray();
             fields["large_completed_rates"] = LargeCompletedRates.Find(loaded.Rates, loaded.Deck.Coupling).Count;
             fields["large_completed_rates_note"] = LargeCompletedRates.Note(loaded.Rates, loaded.Deck.Coupling, loaded.Deck.TimeUnit);
-            fields["checks"] = report.Checks.Select(c => new { name = c.Name, passed = c.Passed, detail = c.Detail }).ToArray();
+            fields["checks"] = report.Checks.Select(c => new Dictionary<string, object?> { ["name"] = c.Name, ["passed"] = c.Passed, ["detail"] = c.Detail }).ToArray();
             fields["mechanics"] = mechanics?.Json(mechanicsFile!);
             JsonSummary.Write(context.Out, fields);
             context.Out.WriteLine();

@@ -77,19 +77,19 @@ internal sealed class MechanicsTable(LoadedDeck loaded, MechanicsResult result)
         : Enumerable.Range(0, _endRows).Concat(Enumerable.Range(count - _endRows, _endRows));
 
     /// <summary>The <c>mechanics</c> object of the JSON summary: arrays in state order, and the CSV path.</summary>
-    public object Json(string csvPath) => new
+    public Dictionary<string, object?> Json(string csvPath) => new()
     {
-        lagrangian = Deck.Mechanics!.Lagrangian,
-        planck = Deck.Mechanics.Planck,
-        weights_from_mechanics = Deck.Weights is MechanicsWeights,
-        file = csvPath,
-        labels = loaded.States.Labels,
-        energies = Energies,
-        actions = result.Actions,
-        periods = result.Periods,
-        weights = result.Weights,
-        turning_points_low = result.TurningPointsLow,
-        turning_points_high = result.TurningPointsHigh,
-        relative_errors = result.RelativeErrors,
+        ["lagrangian"] = Deck.Mechanics!.Lagrangian,
+        ["planck"] = Deck.Mechanics.Planck,
+        ["weights_from_mechanics"] = Deck.Weights is MechanicsWeights,
+        ["file"] = csvPath,
+        ["labels"] = loaded.States.Labels,
+        ["energies"] = Energies,
+        ["actions"] = result.Actions,
+        ["periods"] = result.Periods,
+        ["weights"] = result.Weights,
+        ["turning_points_low"] = result.TurningPointsLow,
+        ["turning_points_high"] = result.TurningPointsHigh,
+        ["relative_errors"] = result.RelativeErrors,
     };
 }

@@ -48,7 +48,7 @@ public sealed class SteadyVerb : IVerb
             fields["approach_time"] = steady.ApproachTime;
             fields["total_population"] = steady.Populations?.Sum();
             fields["lost_mass"] = steady.LostMass;
-            fields["class_masses"] = steady.ClassMasses.Select(c => new { states = c.Class.Labels, mass = c.Mass }).ToArray();
+            fields["class_masses"] = steady.ClassMasses.Select(c => new Dictionary<string, object?> { ["states"] = c.Class.Labels, ["mass"] = c.Mass }).ToArray();
             fields["labels"] = loaded.States.Labels;
             fields["populations"] = steady.Populations;
             fields["message"] = steady.Message;

@@ -1,5 +1,3 @@
-using System.Text.Encodings.Web;
-using System.Text.Json;
 using RateDeck.Decks;
 
 namespace RateDeck.Outputs;
@@ -17,8 +15,6 @@ public sealed record OutputHeader(string ToolVersion, string DeckPath, string De
 {
     /// <summary>The comment character that starts every header line.</summary>
     public const char CommentChar = '#';
-
-    private static readonly JsonSerializerOptions _listFormat = new() { Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
 
     /// <summary>The header for results of <paramref name="deck"/> made by this program.</summary>
     public static OutputHeader For(Deck deck)
@@ -38,7 +34,7 @@ public sealed record OutputHeader(string ToolVersion, string DeckPath, string De
         yield return $"{CommentChar} {ToolInfo.Name} {OneLine(ToolVersion)}";
         yield return $"{CommentChar} deck: {OneLine(DeckPath)}";
         yield return $"{CommentChar} deck_sha256: {OneLine(DeckSha256)}";
-        yield return $"{CommentChar} overrides: {(Overrides.Count == 0 ? "none" : JsonSerializer.Serialize(Overrides, _listFormat))}";
+        yield return $"{CommentChar} overrides: {(Overrides.Count == 0 ? "none" : JsonSummary.SerializeValue(Overrides))}";
     }
 
     /// <summary>

@@ -1,4 +1,6 @@
+using System.Text.Encodings.Web;
 using System.Text.Json;
+using System.Text.Json.Serialization;
 using RateDeck.Outputs;
 
 namespace RateDeck.Sweeps;
@@ -45,7 +47,7 @@ public sealed record SweepManifest(int Format, string ToolVersion, string Verb, 
     }
 
     /// <summary>The manifest's text as written to <see cref="FileName"/>.</summary>
-    public string Text() => JsonSummary.Serialize(this, indented: true) + "\n";
+    public string Text() => JsonSerializer.Serialize(this, ManifestJson.Relaxed.SweepManifest) + "\n";
 
     /// <summary>Reads the manifest of the sweep folder <paramref name="folder"/>.</summary>
     /// <exception cref="SweepFolderException">There is none, or it cannot be read.</exception>
@@ -59,7 +61,7 @@ public sealed record SweepManifest(int Format, string ToolVersion, string Verb, 
 
         try
         {
-            var manifest = JsonSummary.Deserialize<SweepManifest>(File.ReadAllText(path));
+            var manifest = JsonSerializer.Deserialize(File.ReadAllText(path), ManifestJson.Relaxed.SweepManifest);
             return manifest is { Format: CurrentFormat, Verb: "run" or "fit", Points: not null, Keys: not null, Overrides: not null, RunArguments: not null, Axes: not null, Deck: not null, DeckSha256: not null, ToolVersion: not null }
                 ? manifest
                 : throw new SweepFolderException($"{path}: not a sweep manifest of format {CurrentFormat}; make it again with sweep --emit-jobs");
@@ -69,6 +71,24 @@ public sealed record SweepManifest(int Format, string ToolVersion, string Verb, 
             throw new SweepFolderException($"{path}: the manifest cannot be read ({e.Message}); make it again with sweep --emit-jobs");
         }
     }
+}
+
+/// <summary>
+/// The manifest's JSON form, generated at build time (no reflection, so the precompiled native
+/// program reads and writes it too): snake_case names, indented, non-ASCII text as is.
+/// </summary>
+[JsonSourceGenerationOptions(PropertyNamingPolicy = JsonKnownNamingPolicy.SnakeCaseLower, WriteIndented = true, NewLine = "\n")]
+[JsonSerializable(typeof(SweepManifest))]
+internal sealed partial class ManifestJson : JsonSerializerContext
+{
+    /// <summary>The context with the relaxed encoder, so that labels and paths keep their characters.</summary>
+    public static ManifestJson Relaxed { get; } = new(new JsonSerializerOptions
+    {
+        PropertyNamingPolicy = JsonNamingPolicy.SnakeCaseLower,
+        WriteIndented = true,
+        NewLine = "\n",
+        Encoder = JavaScriptEncoder.UnsafeRelaxedJsonEscaping,
+    });
 }
 
 /// <summary>A sweep folder that cannot be used as it is; the message says why and what to do.</summary>

@@ -7,15 +7,20 @@ namespace RateDeck.Tests.Outputs;
 
 public sealed class JsonSummaryTests
 {
-    private sealed record StiffnessSummary(string DeckPath, double SpectralRadius, double StiffnessRatio, double SmallestRate,
-        double? OptionalDt, ExplicitMethod Method, IReadOnlyDictionary<string, double> Parameters, double[] Eigenvalues);
-
-    private static readonly StiffnessSummary _summary = new("decks/λ-grains.toml", 2.0 / 3.0, double.PositiveInfinity, double.NaN,
-        null, ExplicitMethod.RungeKutta4, new Dictionary<string, double> { ["kT"] = 1.5, ["W_0"] = double.NegativeInfinity },
-        [-1.0, 0.0, double.NegativeInfinity]);
+    private static readonly Dictionary<string, object?> _summary = new()
+    {
+        ["deck_path"] = "decks/λ-grains.toml",
+        ["spectral_radius"] = 2.0 / 3.0,
+        ["stiffness_ratio"] = double.PositiveInfinity,
+        ["smallest_rate"] = double.NaN,
+        ["optional_dt"] = (double?)null,
+        ["method"] = ExplicitMethod.RungeKutta4,
+        ["parameters"] = new Dictionary<string, double> { ["kT"] = 1.5, ["W_0"] = double.NegativeInfinity },
+        ["eigenvalues"] = new[] { -1.0, 0.0, double.NegativeInfinity },
+    };
 
     [Fact]
-    public void PropertyNames_AreSnakeCase_EnumsSnakeCaseStrings_DictionaryKeysAsGiven()
+    public void FieldNamesAndKeys_AreWrittenAsGiven_EnumsAsSnakeCaseStrings()
     {
         using var document = JsonDocument.Parse(JsonSummary.Serialize(_summary));
         var root = document.RootElement;
@@ -25,6 +30,28 @@ public sealed class JsonSummaryTests
         Assert.Equal("runge_kutta4", root.GetProperty("method").GetString());
         Assert.Equal(["kT", "W_0"], root.GetProperty("parameters").EnumerateObject().Select(p => p.Name));
         Assert.Equal("decks/λ-grains.toml", root.GetProperty("deck_path").GetString());
+    }
+
+    [Fact]
+    public void FiniteNumbers_AreWrittenAsTheLibrarySerializerWritesThem()
+    {
+        // Reference: System.Text.Json's own serializer (shortest round-trip form), on values at the
+        // edges of the double range and ones without an exact binary form.
+        double[] numbers = [0.1, 1.0 / 3.0, 5e-324, 2.2250738585072014e-308, 1.7976931348623157e308, -0.0, 1e21, 123456789012345680, 6.02214076e23];
+
+        var json = JsonSummary.Serialize(new Dictionary<string, object?> { ["numbers"] = numbers, ["count"] = 42L, ["index"] = -7 });
+
+        Assert.Equal($"{{\"numbers\":{JsonSerializer.Serialize(numbers)},\"count\":42,\"index\":-7}}", json);
+    }
+
+    [Fact]
+    public void ValueOfAnUnsupportedKind_IsRefused()
+    {
+        var summary = new Dictionary<string, object?> { ["when"] = new DateTime(2026, 12, 2, 0, 0, 0, DateTimeKind.Utc) };
+
+        var error = Assert.Throws<ArgumentException>(() => JsonSummary.Serialize(summary));
+
+        Assert.Contains("System.DateTime", error.Message, StringComparison.Ordinal);
     }
 
     [Fact]
@@ -57,14 +84,6 @@ public sealed class JsonSummaryTests
         Assert.EndsWith("}\n", compact.ToString(), StringComparison.Ordinal);
         Assert.Contains("\n  \"spectral_radius\": ", indented.ToString(), StringComparison.Ordinal);
         Assert.DoesNotContain('\r', indented.ToString());
-    }
-
-    [Fact]
-    public void OutputHeader_InASummary_UsesTheKeysOfTheCsvHeader()
-    {
-        var json = JsonSummary.Serialize(new OutputHeader("0.1.0", "d.toml", "ab", ["kT=1"]));
-
-        Assert.Equal("{\"tool_version\":\"0.1.0\",\"deck_path\":\"d.toml\",\"deck_sha256\":\"ab\",\"overrides\":[\"kT=1\"]}", json);
     }
 
     [Fact]
