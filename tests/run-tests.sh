@@ -1,7 +1,10 @@
 #!/usr/bin/env bash
 # Runs the whole test suite once per linear-algebra provider (managed always; native when the
-# system's OpenBLAS loads) and ends with one line "N passed, N failed[, N skipped]" summed from the
-# real results of every run. Exit status is non-zero when a build or any test failed.
+# system's OpenBLAS loads), in process; then the tests that run the program (trait Through=program)
+# once more per provider against the program users run, ./ratedeck (native code where clang is
+# installed), started as a process for each command. Ends with one line
+# "N passed, N failed[, N skipped]" summed from the real results of every run. Exit status is
+# non-zero when a build or any test failed.
 set -u
 cd "$(dirname "$0")/.."
 
@@ -27,6 +30,17 @@ for provider in $providers; do
     RATEDECK_LINALG=$provider dotnet test RateDeck.sln -c Release --no-build --nologo \
         --logger "trx;LogFileName=$provider.trx" --results-directory "$results" || status=1
 done
+
+if ./ratedeck --version >/dev/null; then
+    for provider in $providers; do
+        echo "== command-line tests through ./ratedeck, the published program, with RATEDECK_LINALG=$provider"
+        RATEDECK_TEST_PROGRAM="$PWD/ratedeck" RATEDECK_LINALG=$provider dotnet test RateDeck.sln -c Release --no-build --nologo \
+            --filter "Through=program" --logger "trx;LogFileName=program-$provider.trx" --results-directory "$results" || status=1
+    done
+else
+    echo "./ratedeck could not be built: the tests through the published program did not run"
+    status=1
+fi
 
 passed=0; failed=0; skipped=0
 for trx in "$results"/*.trx; do

@@ -9,6 +9,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>Issue 8 section 3: the automatic explicit step meets run.accuracy, and a run that misses it says so.</summary>
 public sealed class AccurateStepTests
 {
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("euler")]
     [InlineData("rk4")]
@@ -38,6 +39,7 @@ public sealed class AccurateStepTests
         Assert.True(worst > 0, "the explicit result cannot equal the exponential exactly");
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("euler")]
     [InlineData("rk4")]
@@ -57,6 +59,7 @@ public sealed class AccurateStepTests
         Assert.True(root.GetProperty("dt").GetDouble() <= root.GetProperty("dt_stability_limit").GetDouble());
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void GivenStepThatMissesTheTarget_IsReportedAndFailsOnlyWhenAccuracyIsRequired()
     {

@@ -27,6 +27,7 @@ public sealed class CheckMechanicsTests : IDisposable
 
     public void Dispose() => _out.Dispose();
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_PendulumDemo_PrintsEveryStateAndWritesMechanicsCsvWithProvenance()
     {
@@ -54,6 +55,7 @@ public sealed class CheckMechanicsTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_WithMoreThanFortyStates_ShowsTheFirstAndLastFiveButWritesThemAll()
     {
@@ -65,6 +67,7 @@ public sealed class CheckMechanicsTests : IDisposable
         Assert.Equal(60, ReadCsv(Path.Combine(_out.Path, "mechanics.csv")).Rows.Count);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_WithParameterOverride_RescalesThePeriodsAndRecordsTheOverride()
     {
@@ -81,6 +84,7 @@ public sealed class CheckMechanicsTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void CheckJson_CarriesTheMechanicsArrays()
     {
@@ -101,6 +105,7 @@ public sealed class CheckMechanicsTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_DeckWithoutALagrangian_WritesNoMechanics()
     {
@@ -111,6 +116,7 @@ public sealed class CheckMechanicsTests : IDisposable
         Assert.Empty(_out.Entries());
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_EnergyAboveTheSeparatrix_ExitsTwoAtTheLagrangianNamingTheState()
     {

@@ -6,6 +6,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>Every verb has its own help under --help and -h, made from the parser's declarations (issue 9 §2).</summary>
 public sealed class CommandLineHelpTests
 {
+    [Trait("Through", "program")]
     [Theory]
     [MemberData(nameof(CliRunner.Verbs), MemberType = typeof(CliRunner))]
     public void EveryVerb_HelpAndShortHelp_ShowItsUsageAndEveryOptionItDeclares(string verb)
@@ -22,12 +23,14 @@ public sealed class CommandLineHelpTests
         Assert.Equal("", help.Error);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void HelpVerb_WithAVerb_PrintsThatVerbsHelp()
     {
         Assert.Equal(CliRunner.Run("run", "--help").Out, CliRunner.Run("help", "run").Out);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void NoArguments_ShowsTheVerbsOnStandardErrorWithExitTwo()
     {

@@ -15,6 +15,7 @@ public sealed class CommandLineMistakeTests : IDisposable
 
     public void Dispose() => _folder.Dispose();
 
+    [Trait("Through", "program")]
     [Fact]
     public void ValuedOptionFollowedByAnotherOption_IsAMissingValueNotAValue()
     {
@@ -27,6 +28,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.False(Directory.Exists(output));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void RepeatedSingleOption_IsRefusedNotSilentlyTheLast()
     {
@@ -38,6 +40,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.False(Directory.Exists(first) || Directory.Exists(second));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void EmptyOutputFolder_IsRefusedAsBadInput()
     {
@@ -48,6 +51,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.DoesNotContain("internal error", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void OverrideBelowAPlainKey_SaysTheKeyHoldsAValueWithoutSuggestingItself()
     {
@@ -57,6 +61,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.Equal("--set title.x=1: `title` holds a value, not a table; set it as title=...\n", error);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("--json=no")]
     [InlineData("--json=true")]
@@ -73,6 +78,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.False(Directory.Exists(output));
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("fit", "--starts", "1.5", "whole number")]
     [InlineData("fit", "--seed", "-3", "whole number")]
@@ -92,6 +98,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.Contains($"'{value}'", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("--set", "KEY=VALUE")]
     [InlineData("--out", "DIR")]
@@ -104,6 +111,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.StartsWith($"ratedeck check: {option} needs a value ({valueName})", result.Error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void DoubleDash_EndsTheOptions_SoAWordLikeAnOptionIsTheDeck()
     {
@@ -116,6 +124,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.DoesNotContain("no option", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void DoubleDash_BeforeTheDeck_RunsAsWithout()
     {
@@ -127,6 +136,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.Equal(CliRunner.Run("check", deck, "--json").Out, stdout);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void TwoDecks_AreRefusedNamingBoth()
     {
@@ -136,6 +146,7 @@ public sealed class CommandLineMistakeTests : IDisposable
         Assert.Contains("'a.toml' and 'b.toml'", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void DeckNamedLikeAResponseFile_IsAPathNotAListOfArguments()
     {

@@ -18,6 +18,7 @@ public sealed class ConservationDriftTests : IDisposable
 
     public void Dispose() => _folder.Dispose();
 
+    [Trait("Through", "program")]
     [Fact]
     public void StiffLadder_RunReportsTheMeasuredDriftAndTheResolutionItLeaves()
     {
@@ -38,6 +39,7 @@ public sealed class ConservationDriftTests : IDisposable
         Assert.Contains(text.Out.Split('\n'), line => line.StartsWith("  note: the exact path keeps the conserved total population only to ", StringComparison.Ordinal));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void SmallDeck_DriftIsRoundingAndNothingIsSaid()
     {

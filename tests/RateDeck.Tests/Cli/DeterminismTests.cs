@@ -26,6 +26,7 @@ public sealed class DeterminismTests : IDisposable
     private static Dictionary<string, byte[]> Csvs(string folder) =>
         Directory.GetFiles(folder, "*.csv").ToDictionary(f => Path.GetFileName(f), File.ReadAllBytes);
 
+    [Trait("Through", "program")]
     [Fact]
     public async Task SameDeckTwiceAtOnce_IntoTwoFolders_GivesByteIdenticalCsvs()
     {
@@ -42,6 +43,7 @@ public sealed class DeterminismTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public async Task TwoRunsIntoOneFolderAtOnce_BothCompleteOrTheSecondRefusesPlainly()
     {
@@ -66,6 +68,7 @@ public sealed class DeterminismTests : IDisposable
         Assert.Equal(["reference", "shared"], Directory.GetFileSystemEntries(_folder.Path).Select(e => Path.GetFileName(e)).Order(StringComparer.Ordinal).ToArray());
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void RerunIntoAFolderOfAnotherRun_ReplacesItsFilesAndKeepsFilesItDidNotWrite()
     {

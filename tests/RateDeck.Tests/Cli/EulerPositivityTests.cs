@@ -26,6 +26,7 @@ public sealed class EulerPositivityTests : IDisposable
         return path;
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_EulerStepStableButAbovePositivityLimit_IsRefusedWithExitThree()
     {
@@ -36,6 +37,7 @@ public sealed class EulerPositivityTests : IDisposable
         Assert.False(Directory.Exists(_folder.File("out")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_EulerStepStableButAbovePositivityLimit_IsUnsafeForTheMethodAskedFor()
     {
@@ -46,6 +48,7 @@ public sealed class EulerPositivityTests : IDisposable
         Assert.DoesNotContain("the deck's method", output, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_EulerStepWithinBothLimits_Runs()
     {

@@ -8,6 +8,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>The documented exit codes (docs/cli.md) and the shape of the verbs' JSON, which scripts rely on.</summary>
 public sealed class ExitCodeTests
 {
+    [Trait("Through", "program")]
     [Fact]
     public void Check_OnDemoDeck_ExitsZeroWithRequiredJsonKeys()
     {
@@ -26,6 +27,7 @@ public sealed class ExitCodeTests
         Assert.Equal(["ground", "upper"], root.GetProperty("closed_classes")[0].EnumerateArray().Select(e => e.GetString()!));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_WithStepAboveRk4Limit_ExitsThree()
     {
@@ -40,6 +42,7 @@ public sealed class ExitCodeTests
         Assert.Contains("UNSAFE", above.Out, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_JsonCarriesEveryStepLimit()
     {
@@ -58,6 +61,7 @@ public sealed class ExitCodeTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void BadDeck_ExitsTwoWithFileLineColumnAndNoStackTrace()
     {
@@ -73,6 +77,7 @@ public sealed class ExitCodeTests
         Assert.DoesNotContain("   at ", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void MissingDeck_ExitsTwo()
     {
@@ -82,6 +87,7 @@ public sealed class ExitCodeTests
         Assert.Contains("no-such-deck.toml", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("chek", "check")]
     [InlineData("stifness", "stiffness")]
@@ -93,6 +99,7 @@ public sealed class ExitCodeTests
         Assert.Contains($"`{hint}`", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void UnknownOption_ExitsTwoWithHint()
     {
@@ -102,6 +109,7 @@ public sealed class ExitCodeTests
         Assert.Contains("`--json`", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void NonPositiveStep_ExitsTwo()
     {
@@ -111,6 +119,7 @@ public sealed class ExitCodeTests
         Assert.Contains("--dt", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_OnMatrixWithoutDetailedBalance_ExitsFour()
     {
@@ -124,6 +133,7 @@ public sealed class ExitCodeTests
         Assert.Contains("FAIL", output, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Help_ListsEveryVerbAndExitsZero()
     {

@@ -26,6 +26,7 @@ public sealed class FitSweepTests : IDisposable
 
     private static string Cell(CsvRecords table, int row, string column) => table.Rows[row][table.Columns.ToList().IndexOf(column)];
 
+    [Trait("Through", "program")]
     [Fact]
     public void SweepWithFit_RowsHoldWhatFitReportsForTheSameOverrides()
     {
@@ -59,6 +60,7 @@ public sealed class FitSweepTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void SweepWithFit_EmitsFitJobLines_WhoseCollectedTableIsTheInProcessOne()
     {
@@ -80,6 +82,7 @@ public sealed class FitSweepTests : IDisposable
         Assert.Equal(File.ReadAllBytes(Path.Combine(inProcess, "summary.csv")), File.ReadAllBytes(Path.Combine(jobs, "summary.csv")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void SweepWithFit_OnADeckWithoutAFitTable_IsOneLocatedErrorBeforeAnyPoint()
     {

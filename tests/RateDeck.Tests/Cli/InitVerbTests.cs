@@ -8,6 +8,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>`ratedeck init [FILE]` (issue 9 §3): a starter deck that checks clean and runs, and an existing file left alone unless --force.</summary>
 public sealed class InitVerbTests
 {
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("starter.toml")]
     [InlineData("a deck with spaces.toml")]
@@ -27,6 +28,7 @@ public sealed class InitVerbTests
         Assert.Contains("INVENTED", File.ReadAllText(deck), StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Init_OnAnExistingFile_LeavesItAloneWithExitFive_AndOverwritesItWithForce()
     {

@@ -49,6 +49,7 @@ public sealed class InitialCsvTests
         return [.. File.ReadAllLines(folder.File($"{output}/populations-exact.csv")).Where(l => !l.StartsWith('#'))];
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_FromAnInitialCsv_IsTheRunWithTheSamePopulationsInline()
     {
@@ -82,6 +83,7 @@ public sealed class InitialCsvTests
         Assert.Equal([0.0, 0.5], given.Values);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("state,population\nground,0.2\n§uper,0.8\n", "unknown state `uper`. Did you mean `upper`? The states are ground, upper.")]
     [InlineData("state,population\nground,0.2\nupper,0.3\n§1,0.5\n", "the population of this state is already given on line 2; give each state once")]

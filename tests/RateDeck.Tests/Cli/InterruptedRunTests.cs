@@ -19,6 +19,7 @@ public sealed class InterruptedRunTests : IDisposable
 
     public void Dispose() => _folder.Dispose();
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("TERM", ExitCodes.Terminated)]
     [InlineData("INT", ExitCodes.Interrupted)]
@@ -37,6 +38,7 @@ public sealed class InterruptedRunTests : IDisposable
         Assert.Equal(entriesBefore.Append("large.toml").Order(StringComparer.Ordinal), _folder.Entries().Order(StringComparer.Ordinal));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public async Task RunStoppedWhileWritingIntoANewFolder_LeavesNoFolder()
     {
@@ -55,12 +57,7 @@ public sealed class InterruptedRunTests : IDisposable
     private async Task<(int Code, string Error)> RunAndStopWhileWritingAsync(string signal, string output)
     {
         var deck = WriteDeck("large.toml", outputs: 200_000);
-        var info = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true };
-        foreach (var arg in new[] { Path.Combine(AppContext.BaseDirectory, "ratedeck.dll"), "run", deck, "--exact-only", "--no-plots", "--out", output })
-        {
-            info.ArgumentList.Add(arg);
-        }
-
+        var info = CliRunner.StartInfo("run", deck, "--exact-only", "--no-plots", "--out", output);
         using var process = Process.Start(info)!;
         try
         {

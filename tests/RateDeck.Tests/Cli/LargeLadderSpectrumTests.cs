@@ -20,6 +20,7 @@ public sealed class LargeLadderSpectrumTests
     private static readonly double _rho = UniformLadder.SpectralRadius(_count, _slope);
     private static readonly double _slowest = UniformLadder.SlowestRate(_count, _slope);
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_ByDefault_TakesTheExtremesAndGivesTheClosedFormFigures()
     {
@@ -29,6 +30,7 @@ public sealed class LargeLadderSpectrumTests
         AssertFigures(root);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_WithFullSpectrum_ComputesEveryModeAndGivesTheSameFigures()
     {
@@ -38,6 +40,7 @@ public sealed class LargeLadderSpectrumTests
         AssertFigures(root);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_ByDefault_WritesThePartialSpectrumWithItsModeNumbersAndSaysSo()
     {
@@ -71,6 +74,7 @@ public sealed class LargeLadderSpectrumTests
         Assert.Equal(_slowest, Number(values[Array.IndexOf(header, "slowest_rate")]), _slowest * 1e-9);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_ByDefault_PassesOnTheExtremesAndNamesThePath()
     {

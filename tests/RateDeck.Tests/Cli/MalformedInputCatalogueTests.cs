@@ -107,6 +107,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         units: "energy = \"none\"", states: "coordinates = [0.1, 0.2, 0.3]\nlabels = [\"a\", \"b\", \"c\"]", energies: "expression = \"x\"",
         weights: "from_mechanics = true", extra: string.Format(System.Globalization.CultureInfo.InvariantCulture, _pendulumMechanics, lagrangian));
 
+    [Trait("Through", "program")]
     [Theory]
     [MemberData(nameof(Cases))]
     public void MalformedInput_IsOneLocatedLineWithExitTwo(Case item)
@@ -139,6 +140,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
     /// g_i exp(-E_i/kT) / Z that detailed balance implies for one closed class (common practice;
     /// van Kampen, Stochastic Processes in Physics and Chemistry, ch. V, from memory).
     /// </summary>
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("from,to,rate\nb,a,1e308\nc,b,2\nc,a,0.5\n")]
     [InlineData("from,to,rate\nb,a,1e300\nc,b,1e15\n")]
@@ -181,6 +183,7 @@ public sealed class MalformedInputCatalogueTests : IDisposable
         Assert.Equal(cases.Count, cases.Select(c => (c.Deck, c.Csv)).Distinct().Count());
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public async Task RateFileThatIsAFifoWithoutWriter_IsRefusedWithoutBlocking()
     {

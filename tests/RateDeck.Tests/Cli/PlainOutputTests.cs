@@ -12,6 +12,7 @@ namespace RateDeck.Tests.Cli;
 /// </summary>
 public sealed class PlainOutputTests
 {
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("check", "cascade.toml", "ok, 7 checks passed, 48 states")]
     [InlineData("steady", "cascade.toml", "driven steady state")]
@@ -38,6 +39,7 @@ public sealed class PlainOutputTests
     private static IEnumerable<string?> Files(string folder) =>
         Directory.Exists(folder) ? Directory.GetFiles(folder).Select(Path.GetFileName).Order() : [];
 
+    [Trait("Through", "program")]
     [Fact]
     public void JsonAndQuiet_Together_AreRefused()
     {
@@ -48,6 +50,7 @@ public sealed class PlainOutputTests
         Assert.Contains("--json and --quiet", error, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public async Task StdoutToAFile_DrawsNoProgressBarOnTheTerminal_AndWritesPlainText()
     {
@@ -66,7 +69,7 @@ public sealed class PlainOutputTests
     }
 
     private static string Program(TempFolder folder) =>
-        $"dotnet '{Path.Combine(AppContext.BaseDirectory, "ratedeck.dll")}' run '{CliRunner.DemoDeck("cascade.toml")}' --no-plots --out '{folder.File("out")}'";
+        $"{CliRunner.ShellCommand()} run '{CliRunner.DemoDeck("cascade.toml")}' --no-plots --out '{folder.File("out")}'";
 
     private static async Task<string> OnATerminalAsync(string command)
     {

@@ -41,6 +41,7 @@ public sealed class PractitionerOutputTests
         return folder.File("listed.toml");
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_ListedOutputTimes_AreTheRowsExactlyThenTEnd()
     {
@@ -52,6 +53,7 @@ public sealed class PractitionerOutputTests
         Assert.Equal(["0", "1E-06", "2.5E-06", "1E-05", "0.0001"], times);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_WithWriteRates_WritesEveryEntryOfKAsTripletsWithTheCompletedRate()
     {
@@ -77,6 +79,7 @@ public sealed class PractitionerOutputTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_FinalBoltzmannTable_AtEquilibriumFallsOnTheLineOfSlopeMinusOneOverKT()
     {
@@ -92,6 +95,7 @@ public sealed class PractitionerOutputTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_FinalBoltzmannTable_WritesTheWeightsAsTheDeckGivesThem()
     {

@@ -8,6 +8,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>From the verb down to the exact propagator's choice: the balance report decides the path, not a bare number.</summary>
 public sealed class PropagatorChoiceTests
 {
+    [Trait("Through", "program")]
     [Fact]
     public void Run_OnFullMatrixBalancedForAnotherEquilibrium_AvoidsTheSymmetricPathAndConservesMass()
     {
@@ -35,6 +36,7 @@ public sealed class PropagatorChoiceTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_OnFullMatrixBalancedForAnotherEquilibrium_FailsTheEquilibriumCheck()
     {

@@ -11,6 +11,7 @@ namespace RateDeck.Tests.Cli;
 /// </summary>
 public sealed class ResolveVerbTests
 {
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("two-level.toml")]
     [InlineData("three-level.toml")]
@@ -29,6 +30,7 @@ public sealed class ResolveVerbTests
         AssertSameRun(folder, deck, [], resolvedDeck);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void ResolvedDeck_CarriesTheOverrides_SoItRunsAsTheDeckWithThem()
     {
@@ -45,6 +47,7 @@ public sealed class ResolveVerbTests
         AssertSameRun(folder, deck, overrides, resolvedDeck);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Resolve_WritesEveryRunDefaultTheDeckLeftOut()
     {

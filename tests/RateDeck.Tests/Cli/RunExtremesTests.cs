@@ -32,6 +32,7 @@ public sealed class RunExtremesTests : IDisposable
         { "[0.0, 0.1, 0.2]", "[0.0, 0.1, 0.2]", "kind = \"kernel\"\ndirection = \"toward_smaller\"\nkernel = \"0 * exp(x - y)\"\n[losses]\nvalues = [0, 0, 0]" },
     };
 
+    [Trait("Through", "program")]
     [Theory]
     [MemberData(nameof(NoRateDecks))]
     public void AutomaticStep_WithoutAnyRate_RunsAndNothingMoves(string states, string energies, string transfer)
@@ -47,6 +48,7 @@ public sealed class RunExtremesTests : IDisposable
         Assert.Equal(0.0, root.GetProperty("max_abs_difference").GetDouble());
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("1e-300")]
     [InlineData("1e-310")]
@@ -60,6 +62,7 @@ public sealed class RunExtremesTests : IDisposable
         Assert.False(Directory.Exists(_folder.File("out")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void RateNear1e308_WithAutomaticStep_DeclinesExplicitAndReachesTheBoltzmannEquilibrium()
     {
@@ -75,6 +78,7 @@ public sealed class RunExtremesTests : IDisposable
         Assert.Equal(Math.Exp(-2), ratio, 1e-12);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void EndTimeNear1e308_ExactOnly_ReachesTheBoltzmannEquilibrium()
     {
@@ -90,6 +94,7 @@ public sealed class RunExtremesTests : IDisposable
         Assert.Equal(Math.Exp(-2), ratio, 1e-12);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void PumpingNear1e308_IsRefusedInsteadOfPrintingNaN()
     {

@@ -9,6 +9,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>The run and steady verbs end to end on the demo decks.</summary>
 public sealed class RunVerbTests
 {
+    [Trait("Through", "program")]
     [Fact]
     public void Run_OnTwoLevelDeck_AgreesWithClosedFormAndWritesEveryOutput()
     {
@@ -47,6 +48,7 @@ public sealed class RunVerbTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_WithStepAboveStabilityLimit_IsRefusedWithExitThreeAndWritesNothing()
     {
@@ -60,6 +62,7 @@ public sealed class RunVerbTests
         Assert.False(Directory.Exists(output));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_WithAllowUnstable_RunsTheUnstableStepAndShowsItDiverge()
     {
@@ -79,6 +82,7 @@ public sealed class RunVerbTests
         Assert.True(JsonDocument.Parse(output).RootElement.GetProperty("max_abs_difference").GetDouble() > 1);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_OnPumpedCascade_ReachesTheDrivenSteadyState()
     {
@@ -92,6 +96,7 @@ public sealed class RunVerbTests
         Assert.True(root.GetProperty("steady_state_distance").GetDouble() < 1e-5);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Steady_OnThreeLevelDeck_IsTheBoltzmannDistribution()
     {
@@ -117,6 +122,7 @@ public sealed class RunVerbTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_WithTFirstRemoved_WritesTheLinearGridTheOverridesAskFor()
     {

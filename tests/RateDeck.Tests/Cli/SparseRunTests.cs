@@ -9,6 +9,7 @@ namespace RateDeck.Tests.Cli;
 /// <summary>The run verb end to end on a deck the assembler stores sparse.</summary>
 public sealed class SparseRunTests
 {
+    [Trait("Through", "program")]
     [Fact]
     public void Run_OnNearestNeighbourLadder_TakesSparsePathAndMatchesCosineExpansion()
     {

@@ -29,6 +29,7 @@ public sealed class SweepTests : IDisposable
 
     private static string Cell(CsvRecords table, int row, string column) => table.Rows[row][table.Columns.ToList().IndexOf(column)];
 
+    [Trait("Through", "program")]
     [Fact]
     public void SweepOverKT_WritesTheSameFilesAsTheShellLoopOfRuns()
     {
@@ -48,6 +49,7 @@ public sealed class SweepTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void SweepOverKT_SummaryRowsHoldTheTwoLevelBoltzmannFractionsAndRelaxationRate()
     {
@@ -70,6 +72,7 @@ public sealed class SweepTests : IDisposable
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Summary_IsByteIdenticalWhateverTheNumberOfJobs()
     {
@@ -83,6 +86,7 @@ public sealed class SweepTests : IDisposable
         Assert.Equal(15, Summary(one).Rows.Count);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Product_TakesEveryCombinationLastAxisFastest_ZipWalksTheAxesTogether()
     {
@@ -100,6 +104,7 @@ public sealed class SweepTests : IDisposable
         Assert.Equal(["point-0000", "point-0001", "point-0002"], Summary(zip).Rows.Select(r => r[0]));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void SweepOverAWholeNumberKey_GivesItAsAnInteger()
     {
@@ -112,6 +117,7 @@ public sealed class SweepTests : IDisposable
         Assert.Equal([11, 21, 31, 41], Enumerable.Range(0, 4).Select(k => ResultFiles.Rows(Path.Combine(sweep, $"point-000{k}", "populations-exact.csv")).Length));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Zip_WithUnequalCounts_IsAUsageError()
     {
@@ -119,6 +125,7 @@ public sealed class SweepTests : IDisposable
             "sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.06:3", "--vary", "run.t_end=1e-3:3e-3:2", "--zip", "--out", _folder.File("s"));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Resume_SkipsCompletePoints_AndRunsAgainAPointWhoseFolderIsIncomplete()
     {
@@ -142,6 +149,7 @@ public sealed class SweepTests : IDisposable
         Assert.Equal(summary, File.ReadAllBytes(Path.Combine(sweep, "summary.csv")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Resume_IntoAFolderHoldingAnotherSweep_IsRefused()
     {
@@ -151,6 +159,7 @@ public sealed class SweepTests : IDisposable
         AssertBadInput("holds another sweep", "sweep", TwoLevel, "--vary", "temperature.kT=0.02:0.06:2", "--out", sweep);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void FailingPoint_IsReportedInItsRow_AndTheOtherPointsComplete()
     {
@@ -170,6 +179,7 @@ public sealed class SweepTests : IDisposable
         Assert.False(Directory.Exists(Path.Combine(sweep, "point-0000")));
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("temperature.kT=1:2", "--vary temperature.kT=1:2: after `temperature.kT=` give start:stop:count")]
     [InlineData("temperature.kT=1:2:0", "--vary temperature.kT=1:2:0: the count `0` must be a whole number of 1 or more")]
@@ -189,12 +199,14 @@ public sealed class SweepTests : IDisposable
         Assert.False(Directory.Exists(_folder.File("s")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Collect_OnAFolderWithoutManifest_ExitsTwo()
     {
         AssertBadInput("holds no sweep.json", "collect", _folder.Path);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void EmitJobs_WritesOneRunLinePerPointAndASlurmArrayOverThem()
     {
@@ -212,6 +224,7 @@ public sealed class SweepTests : IDisposable
         Assert.False(Directory.Exists(Path.Combine(jobs, "point-0000")));
     }
 
+    [Trait("Through", "program")]
     [GnuParallelFact]
     public void EmittedJobs_RunByGnuParallel_CollectIntoTheInProcessTableByteForByte()
     {
@@ -220,10 +233,10 @@ public sealed class SweepTests : IDisposable
         Assert.Equal(ExitCodes.PointsFailed, CliRunner.Run(["sweep", TwoLevel, .. vary, "--out", inProcess]).ExitCode);
         Assert.Equal(ExitCodes.Success, CliRunner.Run(["sweep", TwoLevel, .. vary, "--emit-jobs", jobs]).ExitCode);
 
-        // `ratedeck` on PATH, as the job lines expect: here the test's build of the program.
+        // `ratedeck` on PATH, as the job lines expect: here the program under test.
         var bin = Directory.CreateDirectory(_folder.File("bin")).FullName;
         var command = Path.Combine(bin, "ratedeck");
-        File.WriteAllText(command, $"#!/bin/sh\nexec dotnet '{Path.Combine(AppContext.BaseDirectory, "ratedeck.dll")}' \"$@\"\n");
+        File.WriteAllText(command, $"#!/bin/sh\nexec {CliRunner.ShellCommand()} \"$@\"\n");
         if (!OperatingSystem.IsWindows())
         {
             File.SetUnixFileMode(command, UnixFileMode.UserRead | UnixFileMode.UserWrite | UnixFileMode.UserExecute);

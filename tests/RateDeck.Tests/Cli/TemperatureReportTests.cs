@@ -13,6 +13,7 @@ public sealed class TemperatureReportTests
 
     public static TheoryData<string> Verbs => new() { "check", "stiffness", "run", "steady" };
 
+    [Trait("Through", "program")]
     [Theory]
     [MemberData(nameof(Verbs))]
     public void EverySummary_ShowsKTInTheDecksUnitAndInKelvin(string verb)
@@ -24,6 +25,7 @@ public sealed class TemperatureReportTests
         Assert.Contains("temperature  kT = 5e-2 eV (T = 580 K)", output, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [MemberData(nameof(Verbs))]
     public void EveryJson_CarriesKTItsUnitAndTheTemperatureInKelvin(string verb)
@@ -38,6 +40,7 @@ public sealed class TemperatureReportTests
         Assert.Equal(_kelvin, root.GetProperty("temperature_kelvin").GetDouble(), 1e-9 * _kelvin);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void DeckInModelUnits_SaysItHasNoKelvin()
     {

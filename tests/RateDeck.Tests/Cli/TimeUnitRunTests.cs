@@ -52,6 +52,7 @@ public sealed class TimeUnitRunTests
         return ResultFiles.Rows(folder.File("out/populations-exact.csv"));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void RunInMicroseconds_GivesTheSamePopulationsAtTheSameInstantsAsInSeconds()
     {
@@ -78,6 +79,7 @@ public sealed class TimeUnitRunTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void RunInMicroseconds_WritesRatesPerMicrosecond()
     {

@@ -76,6 +76,7 @@ public sealed class TrustworthyAnswersTests
         return c;
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_FullMatrixWithoutEnergiesOrWeights_ReportsItsOwnStationaryLawAndPasses()
     {
@@ -95,6 +96,7 @@ public sealed class TrustworthyAnswersTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_FullMatrixWithWeights_ComparesWithTheDecksPiAndSaysWhichPartsItCameFrom()
     {
@@ -115,6 +117,7 @@ public sealed class TrustworthyAnswersTests
         Assert.Contains("the deck's pi (from its energies, weights all 1) differs from the null vector", text, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_EquilibriumLine_MeasuresOnlyLossFreeClassesAndNamesTheOthers()
     {
@@ -152,6 +155,7 @@ public sealed class TrustworthyAnswersTests
         Assert.True(double.Parse(figures.Groups[1].Value, CultureInfo.InvariantCulture) <= double.Parse(figures.Groups[2].Value, CultureInfo.InvariantCulture), equilibrium);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_FullMatrixWithOneWayEdges_SaysWhyThereIsNoBalanceInsteadOfNaN()
     {
@@ -180,6 +184,7 @@ public sealed class TrustworthyAnswersTests
         Assert.Contains("no detailed balance: 3 one-way edges (rate one way, none back)", output, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_ExactTrajectory_StartsAtExactlyPZeroAtTheDecksOwnTimes()
     {
@@ -201,6 +206,7 @@ public sealed class TrustworthyAnswersTests
         Assert.Equal(expected, times);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("stiff-three.toml", "0,0,0,1")]
     [InlineData("stiff-six.toml", "0,0,0,0,0,0,1")]
@@ -217,6 +223,7 @@ public sealed class TrustworthyAnswersTests
         Assert.Equal(startRow, string.Join(",", rows[0]));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Check_HugeCompletedRate_IsNamedWithItsPairAndBoltzmannFactor()
     {

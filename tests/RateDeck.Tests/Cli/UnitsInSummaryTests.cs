@@ -30,6 +30,7 @@ public sealed class UnitsInSummaryTests
         return (code, output + error);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_PrintsEachRateWithItsInverseTimeUnitAndEachStepWithItsTimeUnit()
     {
@@ -47,6 +48,7 @@ public sealed class UnitsInSummaryTests
         Assert.Matches(@"dt <= [0-9.e-]+ ms needs \d+ steps to t_end = 5e-3 ms", Line(output, "recommendation:"));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void StiffnessWithAStep_NamesTheUnitOfTheStepAndOfEveryLimitItIsJudgedAgainst()
     {
@@ -60,6 +62,7 @@ public sealed class UnitsInSummaryTests
         Assert.Contains("explicit stepping at dt = 1e-3 ms needs 5 steps to t = 5e-3 ms", output, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_ExplicitLineAndResults_CarryTheTimeUnit()
     {
@@ -74,6 +77,7 @@ public sealed class UnitsInSummaryTests
         Assert.Matches(@"residual \|K P\| = [0-9.e-]+ /ms; approach time [0-9.e-]+ ms", output);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Steady_PrintsTheApproachTimeAsOneOverTheRelaxationRateInTheTimeUnit()
     {
@@ -85,6 +89,7 @@ public sealed class UnitsInSummaryTests
         Assert.Equal(1 / _relaxationRate, Number(approach), 0.005 / _relaxationRate);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Steady_WithoutADecayingMode_SaysSoInsteadOfAnInfiniteApproachTime()
     {
@@ -99,6 +104,7 @@ public sealed class UnitsInSummaryTests
         Assert.DoesNotContain("Infinity", output, StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("check")]
     [InlineData("stiffness")]
@@ -119,6 +125,7 @@ public sealed class UnitsInSummaryTests
         Assert.Equal("1/ms", summary.GetProperty("rate_unit").GetString());
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void FitJson_CarriesTheSameProvenanceAsTheOtherVerbs()
     {

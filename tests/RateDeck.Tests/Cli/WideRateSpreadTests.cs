@@ -21,6 +21,7 @@ public sealed class WideRateSpreadTests : IDisposable
 
     public void Dispose() => _folder.Dispose();
 
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("1e308")]
     [InlineData("1e307")]

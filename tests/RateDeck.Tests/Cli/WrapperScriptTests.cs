@@ -1,6 +1,7 @@
 using System.Diagnostics;
 using System.Reflection.PortableExecutable;
 using System.Text.Json;
+using System.Text.RegularExpressions;
 using RateDeck.Cli;
 using Xunit;
 
@@ -8,9 +9,10 @@ namespace RateDeck.Tests.Cli;
 
 /// <summary>
 /// The `ratedeck` script at the repository root, as README.md tells a user to run it: executable
-/// as it is checked out, it publishes the program once (ReadyToRun), runs it with the arguments
-/// given and keeps stdout to the program (issue 9 §1 and §6). The first test here publishes the
-/// program when the checkout has no up-to-date copy yet (a clean clone in CI), which takes a minute or two.
+/// as it is checked out, it publishes the program once (native code where clang is installed,
+/// ReadyToRun otherwise), runs it with the arguments given and keeps stdout to the program (issue 9
+/// §1 and §6). The first test here publishes the program when the checkout has no up-to-date copy
+/// yet (a clean clone in CI), which takes a minute or two.
 /// </summary>
 public sealed class WrapperScriptTests
 {
@@ -32,19 +34,27 @@ public sealed class WrapperScriptTests
     }
 
     /// <summary>
-    /// The program the script runs carries precompiled code: the CLI header's ManagedNativeHeader
-    /// points at a READYTORUN_HEADER whose signature is 0x00525452 ("RTR"), as the ReadyToRun format
-    /// description in the .NET runtime's design documents (readytorun-format.md) defines it; an
-    /// IL-only assembly from `dotnet build` has no such header.
+    /// Where clang is installed the script runs a native executable: an ELF file (magic 0x7F 'E' 'L'
+    /// 'F', System V ABI) with no assembly for a runtime to load beside it. Otherwise the program is
+    /// ReadyToRun: the CLI header's ManagedNativeHeader points at a READYTORUN_HEADER whose signature
+    /// is 0x00525452 ("RTR"), as the ReadyToRun format description in the .NET runtime's design
+    /// documents (readytorun-format.md) defines it; an IL-only assembly from `dotnet build` has none.
     /// </summary>
     [Fact]
-    public async Task Script_RunsAReadyToRunBuild()
+    public async Task Script_RunsANativeBuildWhereClangIsInstalled_ReadyToRunOtherwise()
     {
         var root = CliRunner.RepositoryRoot();
         var build = await RunScriptAsync(root, null, "--version");
         Assert.True(build.Code == ExitCodes.Success, build.Error);
 
         var published = Path.Combine(root, "solver", "RateDeck.Cli", "bin", "published");
+        if (ClangInstalled())
+        {
+            Assert.Equal("\u007fELF"u8.ToArray(), File.ReadAllBytes(Path.Combine(published, "ratedeck"))[..4]);
+            Assert.False(File.Exists(Path.Combine(published, "ratedeck.dll")));
+            return;
+        }
+
         foreach (var assembly in new[] { "ratedeck.dll", "RateDeck.Engine.dll", "Tomlyn.dll", "System.CommandLine.dll" })
         {
             Assert.True(ReadyToRunSignature(Path.Combine(published, assembly)) == 0x00525452, $"{assembly} is not ReadyToRun");
@@ -53,6 +63,41 @@ public sealed class WrapperScriptTests
         var plain = Path.Combine(AppContext.BaseDirectory, "RateDeck.Engine.dll");
         Assert.Null(ReadyToRunSignature(plain));
     }
+
+    [Theory]
+    [InlineData("native")]
+    [InlineData("readytorun")]
+    public async Task EachBuild_IsPublishedWithItsOptions_AndRunAsItMustBe(string build)
+    {
+        using var checkout = new ScratchCheckout();
+
+        var run = await RunScriptAsync(checkout.Root, checkout.Environment(("RATEDECK_BUILD", build)), "check", "deck.toml");
+
+        Assert.Equal(0, run.Code);
+        var native = Path.Combine(checkout.Published, "ratedeck");
+        var managed = Path.Combine(checkout.Published, "ratedeck.dll");
+        Assert.Equal(build == "native" ? $"native {native} check deck.toml\n" : $"program {managed} check deck.toml\n", run.Out);
+        var publish = File.ReadAllText(checkout.BuildLog);
+        Assert.Equal(build == "native", publish.Contains("-p:RateDeckNative=true -p:CppCompilerAndLinker=clang", StringComparison.Ordinal));
+        Assert.Equal(build == "readytorun", publish.Contains("--self-contained false", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public async Task UnknownBuildKind_IsRefusedBeforeBuilding()
+    {
+        using var checkout = new ScratchCheckout();
+
+        var run = await RunScriptAsync(checkout.Root, checkout.Environment(("RATEDECK_BUILD", "jit")), "--version");
+
+        Assert.Equal(1, run.Code);
+        Assert.Equal("ratedeck: RATEDECK_BUILD is native or readytorun, not 'jit'\n", run.Error);
+        Assert.Equal(0, checkout.Builds());
+    }
+
+    /// <summary>True when the script's search for a linker finds a clang on PATH.</summary>
+    private static bool ClangInstalled() =>
+        (Environment.GetEnvironmentVariable("PATH") ?? "").Split(':', StringSplitOptions.RemoveEmptyEntries)
+            .Any(folder => Directory.Exists(folder) && Directory.EnumerateFiles(folder, "clang*").Any(f => Regex.IsMatch(Path.GetFileName(f), "^clang(-[0-9]+)?$")));
 
     [Fact]
     public async Task FirstRun_BuildsQuietlyOnce_ThenRunsWithoutBuilding()
@@ -63,7 +108,7 @@ public sealed class WrapperScriptTests
         var second = await RunScriptAsync(checkout.Root, checkout.Environment(), "--version");
 
         Assert.Equal(0, first.Code);
-        Assert.Equal($"program {checkout.Program} check deck.toml --json\n", first.Out);
+        Assert.Equal($"native {checkout.Program} check deck.toml --json\n", first.Out);
         var lines = first.Error.Split('\n', StringSplitOptions.RemoveEmptyEntries);
         Assert.Equal(2, lines.Length);
         Assert.StartsWith("ratedeck: building the program", lines[0], StringComparison.Ordinal);
@@ -112,7 +157,7 @@ public sealed class WrapperScriptTests
         var runs = await Task.WhenAll(Enumerable.Range(0, 3).Select(_ => RunScriptAsync(checkout.Root, environment, "--version")));
 
         Assert.All(runs, run => Assert.Equal(0, run.Code));
-        Assert.All(runs, run => Assert.Equal($"program {checkout.Program} --version\n", run.Out));
+        Assert.All(runs, run => Assert.Equal($"native {checkout.Program} --version\n", run.Out));
         Assert.Equal(1, checkout.Builds());
     }
 
@@ -157,22 +202,30 @@ public sealed class WrapperScriptTests
     /// <summary>
     /// A scratch folder laid out like the checkout as far as the script looks (the script, a CLI
     /// project, a source file), with a stand-in `dotnet` first on PATH: `dotnet publish` counts its
-    /// calls, writes build chatter on both streams as msbuild does, waits FAKE_BUILD_SECONDS, then
-    /// fails with FAKE_BUILD_ERROR or writes the program; any other call stands for running the
-    /// program and prints its arguments.
+    /// calls and arguments, writes build chatter on both streams as msbuild does, waits
+    /// FAKE_BUILD_SECONDS, then fails with FAKE_BUILD_ERROR or writes the program (a script that prints
+    /// its own path and arguments for a native build, an assembly otherwise); any other call stands
+    /// for running the assembly and prints its arguments. A stand-in `clang` is on PATH too, so that
+    /// the script takes the native route unless told otherwise (RATEDECK_BUILD).
     /// </summary>
     private sealed class ScratchCheckout : IDisposable
     {
         private const string _fakeDotnet = """
             #!/usr/bin/env bash
             if [ "$1" = publish ]; then
-                echo publish >> "$FAKE_BUILDS"
+                echo "$*" >> "$FAKE_BUILDS"
                 echo "  Determining projects to restore..."
                 echo "MSBUILD : message on stderr" >&2
                 sleep "${FAKE_BUILD_SECONDS:-0}"
                 if [ -n "${FAKE_BUILD_ERROR:-}" ]; then echo "$FAKE_BUILD_ERROR"; exit 1; fi
+                native=no; case "$*" in *RateDeckNative=true*) native=yes ;; esac
                 while [ "$1" != -o ]; do shift; done
-                mkdir -p "$2" && echo program > "$2/ratedeck.dll"
+                mkdir -p "$2"
+                if [ $native = yes ]; then
+                    printf '#!/bin/sh\necho "native $0 $*"\n' > "$2/ratedeck" && chmod +x "$2/ratedeck"
+                else
+                    echo program > "$2/ratedeck.dll"
+                fi
                 exit 0
             fi
             echo "program $*"
@@ -190,7 +243,8 @@ public sealed class WrapperScriptTests
             File.WriteAllText(Path.Combine(Root, "Directory.Build.props"), "<Project />\n");
             Directory.CreateDirectory(Path.Combine(Root, "fake-bin"));
             File.WriteAllText(Path.Combine(Root, "fake-bin", "dotnet"), _fakeDotnet.Replace("\r\n", "\n", StringComparison.Ordinal));
-            foreach (var script in new[] { Path.Combine(Root, "ratedeck"), Path.Combine(Root, "fake-bin", "dotnet") })
+            File.WriteAllText(Path.Combine(Root, "fake-bin", "clang"), "#!/bin/sh\nexit 0\n");
+            foreach (var script in new[] { Path.Combine(Root, "ratedeck"), Path.Combine(Root, "fake-bin", "dotnet"), Path.Combine(Root, "fake-bin", "clang") })
             {
                 if (!OperatingSystem.IsWindows())
                 {
@@ -201,9 +255,12 @@ public sealed class WrapperScriptTests
 
         public string Root { get; }
 
-        public string Program => Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "published", "ratedeck.dll");
+        public string Published => Path.Combine(Root, "solver", "RateDeck.Cli", "bin", "published");
 
-        private string BuildLog => Path.Combine(Root, "builds.txt");
+        /// <summary>The program of a native build, which the script takes when clang is on PATH.</summary>
+        public string Program => Path.Combine(Published, "ratedeck");
+
+        public string BuildLog => Path.Combine(Root, "builds.txt");
 
         public Dictionary<string, string> Environment(params (string Name, string Value)[] extra)
         {

@@ -90,6 +90,7 @@ public sealed class TimeUnitsTests
         Assert.Equal(0.3, deck.Run.EndTime);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Cli_UnknownTimeUnit_ExitsTwoWithFileLineAndColumn()
     {

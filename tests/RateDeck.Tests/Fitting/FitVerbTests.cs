@@ -9,6 +9,7 @@ namespace RateDeck.Tests.Fitting;
 /// <summary>The `ratedeck fit` verb end to end: the fitted deck written back, files, exit codes and bad input.</summary>
 public sealed class FitVerbTests
 {
+    [Trait("Through", "program")]
     [Fact]
     public void TheFittedDeckDiffersFromTheInputOnlyInTheFittedValues()
     {
@@ -30,6 +31,7 @@ public sealed class FitVerbTests
         Assert.Contains("correlation.csv", Directory.GetFiles(folder.File("out")).Select(Path.GetFileName));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void AFitStoppedByTheIterationLimitExitsSixAndWritesNoFittedDeck()
     {
@@ -42,6 +44,7 @@ public sealed class FitVerbTests
         Assert.DoesNotContain(Directory.GetFiles(folder.Path), f => f.EndsWith(".fitted.toml", StringComparison.Ordinal));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void ADataColumnNamingNoStateOrObservableIsReportedAtItsLineAndColumn()
     {
@@ -54,6 +57,7 @@ public sealed class FitVerbTests
         Assert.Contains("Did you mean `volume`?", error);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void ADeckWithoutAFitTableIsBadInput()
     {

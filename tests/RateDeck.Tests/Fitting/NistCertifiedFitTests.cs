@@ -41,18 +41,22 @@ public sealed class NistCertifiedFitTests
     private const double _lanczos3Rss = 1.6117193594E-08;
     private const double _lanczos3ResidualSd = 2.9923229172E-05;
 
+    [Trait("Through", "program")]
     [Fact]
     public void Misra1aFromNistStart1ReachesTheCertifiedValues() =>
         Check("misra1a.toml", [], _misra1a, _misra1aRss, _misra1aResidualSd, 12);
 
+    [Trait("Through", "program")]
     [Fact]
     public void Misra1aFromNistStart2ReachesTheCertifiedValues() =>
         Check("misra1a.toml", ["--set", "scale=250", "--set", "rate=5e-4"], _misra1a, _misra1aRss, _misra1aResidualSd, 12);
 
+    [Trait("Through", "program")]
     [Fact]
     public void Lanczos3FromNistStart1ReachesTheCertifiedValues() =>
         Check("lanczos3.toml", [], _lanczos3, _lanczos3Rss, _lanczos3ResidualSd, 18);
 
+    [Trait("Through", "program")]
     [Fact]
     public void Lanczos3FromNistStart2ReachesTheCertifiedValues() =>
         Check("lanczos3.toml",

@@ -17,6 +17,7 @@ namespace RateDeck.Tests.Fitting;
 /// </summary>
 public sealed class ProfileLikelihoodTests
 {
+    [Trait("Through", "program")]
     [Theory]
     [InlineData("0.95")]
     [InlineData("0.6827")]
@@ -42,6 +43,7 @@ public sealed class ProfileLikelihoodTests
         Assert.Contains("F(", json.GetProperty("profile_rule").GetString(), StringComparison.Ordinal);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void ForAModelLinearInItsParametersTheProfileIntervalIsTheCovarianceInterval()
     {
@@ -67,6 +69,7 @@ public sealed class ProfileLikelihoodTests
         }
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void AProfileLevelOutsideZeroToOneIsABadInputAtItsColumn()
     {

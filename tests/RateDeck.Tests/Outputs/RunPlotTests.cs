@@ -95,6 +95,7 @@ public sealed class RunPlotTests
         Assert.Equal([3], RunPlots.PlottedStates([3], 48));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_WritesTheBoltzmannPlotWhereTheDeckGivesEnergies()
     {

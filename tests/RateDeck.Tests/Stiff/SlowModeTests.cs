@@ -50,6 +50,7 @@ public class SlowModeTests
         Assert.Equal(fixture.SlowRates[0], spectrum.SlowestRate!.Value, fixture.SlowRates[0] * _tolerance);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void StiffnessVerb_OnAStiffChainOf200States_ReportsTheMpmathSlowestRate()
     {
@@ -80,6 +81,7 @@ public class SlowModeTests
     /// 1e-12 to 1e-9 between, one loss): its slowest rate is the Perron root of -K, which mpmath
     /// certifies by the Collatz-Wielandt bounds of power iteration on the inverse.
     /// </summary>
+    [Trait("Through", "program")]
     [Fact]
     public void FullMatrixWithoutDetailedBalance_SlowestRateMatchesMpmathPerronRoot()
     {
@@ -169,6 +171,7 @@ public class SlowModeTests
     /// structural zero and says where each row comes from, and the steady-state line takes its
     /// approach time from them.
     /// </summary>
+    [Trait("Through", "program")]
     [Fact]
     public void Run_OnAStiffChain_WritesTheAccurateSlowRatesToSpectrumCsv()
     {

@@ -43,6 +43,7 @@ public class StiffClosedFormTests
         Assert.True(Math.Abs(spectrum.Eigenvalues[2]) <= spectrum.ZeroTolerance);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void StiffnessVerb_ReportsTheSmallRootAtRatioTenToTheEighteen()
     {
@@ -170,6 +171,7 @@ public class StiffClosedFormTests
         Assert.Empty(classes.Transient);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void CheckVerb_OnTwoStatesFourteenHundredKTApart_ReportsOneClosedClass()
     {

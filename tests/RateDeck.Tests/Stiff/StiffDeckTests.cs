@@ -79,6 +79,7 @@ public class StiffDeckTests
         Assert.Equal(fixture.DecayRates[1], spectrum.SlowestRate!.Value, fixture.DecayRates[1] * 1e-8);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void DefaultRun_DeclinesTheExplicitMethodAndWritesTheMpmathPopulations()
     {
@@ -96,6 +97,7 @@ public class StiffDeckTests
         Assert.True(worst <= 1e-8, $"t = 10: {worst:G3} at {where}");
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void RunWithImplicit_ComparesAllThreePropagators()
     {
@@ -110,6 +112,7 @@ public class StiffDeckTests
         Assert.True(json.RootElement.GetProperty("implicit_vs_exact_max_rel_difference").GetDouble() < 1e-8);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void StiffnessWithAStep_StatesTheStepCountAndRefusesAboveTheBudget()
     {
@@ -120,6 +123,7 @@ public class StiffDeckTests
         Assert.Contains("ABOVE the budget of 1e7 explicit steps", output);
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Stiffness_ReportsTheSlowRateOfMpmath()
     {

@@ -113,9 +113,9 @@ public static class Repository
     public static string Root { get; } = FindRoot();
 
     /// <summary>
-    /// The installed program: the ReadyToRun build the <c>ratedeck</c> script publishes into
-    /// solver/RateDeck.Cli/bin/published (run <c>./ratedeck --version</c> once to make it), or the
-    /// path in RATEDECK_BENCH_CLI.
+    /// The installed program: the build the <c>ratedeck</c> script publishes into
+    /// solver/RateDeck.Cli/bin/published (native code where clang is installed, ReadyToRun otherwise;
+    /// run <c>./ratedeck --version</c> once to make it), or the path in RATEDECK_BENCH_CLI.
     /// </summary>
     public static string Cli()
     {
