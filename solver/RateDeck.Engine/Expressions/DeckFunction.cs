@@ -1,5 +1,3 @@
-using System.Linq.Expressions;
-using System.Reflection;
 using MathNet.Numerics;
 
 namespace RateDeck.Expressions;
@@ -7,14 +5,13 @@ namespace RateDeck.Expressions;
 /// <summary>
 /// A function callable from a deck expression. Every function is a static method of one or two
 /// doubles; a function of two arguments that accepts more (min, max) is applied left to right,
-/// min(a, b, c) = min(min(a, b), c). Constant folding and compiled code call the same method, so
-/// a folded subtree gives exactly the value the compiled code would.
+/// min(a, b, c) = min(min(a, b), c). Constant folding and evaluation call the same method, so
+/// a folded subtree gives exactly the value evaluation would.
 /// </summary>
 internal sealed class DeckFunction
 {
     private readonly Func<double, double>? _unary;
     private readonly Func<double, double, double>? _binary;
-    private readonly MethodInfo _method;
 
     private DeckFunction(string name, string parameters, int minArguments, int maxArguments, Delegate implementation)
     {
@@ -24,11 +21,6 @@ internal sealed class DeckFunction
         MaxArguments = maxArguments;
         _unary = implementation as Func<double, double>;
         _binary = implementation as Func<double, double, double>;
-        _method = implementation.Method;
-        if (!_method.IsStatic)
-        {
-            throw new ArgumentException($"'{name}' must be a static method so that it can be compiled", nameof(implementation));
-        }
     }
 
     /// <summary>The name as written in a deck.</summary>
@@ -90,17 +82,20 @@ internal sealed class DeckFunction
         return value;
     }
 
-    /// <summary>The call as an expression-tree node.</summary>
-    public Expression Emit(IReadOnlyList<Expression> arguments)
+    /// <summary>The call as a closure over its arguments' closures (see <see cref="ExpressionNode.Closure"/>).</summary>
+    public Func<double[], double> Closure(IReadOnlyList<Func<double[], double>> arguments)
     {
-        if (_unary is not null)
+        if (_unary is { } unary)
         {
-            return Expression.Call(_method, arguments[0]);
+            var argument = arguments[0];
+            return values => unary(argument(values));
         }
+        var binary = _binary!;
         var call = arguments[0];
         for (var k = 1; k < arguments.Count; k++)
         {
-            call = Expression.Call(_method, call, arguments[k]);
+            var (left, right) = (call, arguments[k]);
+            call = values => binary(left(values), right(values));
         }
         return call;
     }

@@ -1,5 +1,4 @@
 using System.Collections.Frozen;
-using System.Linq.Expressions;
 using RateDeck.Decks;
 
 namespace RateDeck.Expressions;
@@ -35,9 +34,7 @@ public static class ExpressionCompiler
         CheckNames(variables);
         var source = new ExpressionSource(text, origin);
         var (tree, used) = Parser.Parse(source, variables);
-        var values = Expression.Parameter(typeof(double[]), "values");
-        var evaluate = Expression.Lambda<Func<double[], double>>(tree.Emit(values), values).Compile();
-        return new CompiledExpression(text, Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), evaluate);
+        return new CompiledExpression(text, Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), tree.Closure());
     }
 
     /// <summary>
@@ -54,9 +51,7 @@ public static class ExpressionCompiler
         ArgumentOutOfRangeException.ThrowIfNegative(index, nameof(withRespectTo));
         var (tree, used) = Parser.Parse(new ExpressionSource(text, origin), variables);
         var derivative = ExpressionDerivative.Of(tree, index);
-        var values = Expression.Parameter(typeof(double[]), "values");
-        var evaluate = Expression.Lambda<Func<double[], double>>(derivative.Emit(values), values).Compile();
-        return new CompiledExpression($"d({text})/d{withRespectTo}", Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), evaluate);
+        return new CompiledExpression($"d({text})/d{withRespectTo}", Array.AsReadOnly(variables.ToArray()), used.ToFrozenSet(StringComparer.Ordinal), derivative.Closure());
     }
 
     /// <summary>

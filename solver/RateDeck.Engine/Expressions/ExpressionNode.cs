@@ -1,5 +1,3 @@
-using System.Linq.Expressions;
-
 namespace RateDeck.Expressions;
 
 /// <summary>
@@ -10,10 +8,14 @@ namespace RateDeck.Expressions;
 /// </summary>
 internal abstract record ExpressionNode(int Offset)
 {
-    /// <summary>The node as a System.Linq.Expressions tree reading variables from <paramref name="values"/>.</summary>
-    public abstract Expression Emit(ParameterExpression values);
+    /// <summary>
+    /// The node as a delegate that reads variables from the values array: a tree of closures, one
+    /// per node, each doing its node's one IEEE operation. No code is generated at run time, so the
+    /// native-compiled program evaluates at the same speed and to the same bits as any other build.
+    /// </summary>
+    public abstract Func<double[], double> Closure();
 
-    /// <summary>Nodes on the longest path from this one to a leaf (1 for a leaf): emitting and compiling recurse this deep.</summary>
+    /// <summary>Nodes on the longest path from this one to a leaf (1 for a leaf): building and evaluating recurse this deep.</summary>
     public virtual int Depth => 1;
 }
 
@@ -21,15 +23,22 @@ internal abstract record ExpressionNode(int Offset)
 internal sealed record NumberNode(double Value, int Offset) : ExpressionNode(Offset)
 {
     /// <inheritdoc />
-    public override Expression Emit(ParameterExpression values) => Expression.Constant(Value);
+    public override Func<double[], double> Closure()
+    {
+        var value = Value;
+        return _ => value;
+    }
 }
 
 /// <summary>A variable, read from slot <see cref="Index"/> of the values array.</summary>
 internal sealed record VariableNode(string Name, int Index, int Offset) : ExpressionNode(Offset)
 {
     /// <inheritdoc />
-    public override Expression Emit(ParameterExpression values)
-        => Expression.ArrayIndex(values, Expression.Constant(Index));
+    public override Func<double[], double> Closure()
+    {
+        var index = Index;
+        return values => values[index];
+    }
 }
 
 /// <summary>Unary minus.</summary>
@@ -43,7 +52,11 @@ internal sealed record NegateNode(ExpressionNode Operand, int Offset) : Expressi
     public override int Depth { get; } = Operand.Depth + 1;
 
     /// <inheritdoc />
-    public override Expression Emit(ParameterExpression values) => Expression.Negate(Operand.Emit(values));
+    public override Func<double[], double> Closure()
+    {
+        var operand = Operand.Closure();
+        return values => -operand(values);
+    }
 }
 
 /// <summary>The binary operators, by the character that writes them.</summary>
@@ -70,20 +83,20 @@ internal sealed record BinaryNode(BinaryOperator Operator, ExpressionNode Left, 
     public override int Depth { get; } = Math.Max(Left.Depth, Right.Depth) + 1;
 
     /// <inheritdoc />
-    public override Expression Emit(ParameterExpression values)
+    public override Func<double[], double> Closure()
     {
-        var left = Left.Emit(values);
+        var left = Left.Closure();
         if (Operator == BinaryOperator.Power)
         {
-            return EmitPower(left, Right, values);
+            return PowerClosure(left, Right);
         }
-        var right = Right.Emit(values);
+        var right = Right.Closure();
         return Operator switch
         {
-            BinaryOperator.Add => Expression.Add(left, right),
-            BinaryOperator.Subtract => Expression.Subtract(left, right),
-            BinaryOperator.Multiply => Expression.Multiply(left, right),
-            _ => Expression.Divide(left, right),
+            BinaryOperator.Add => values => left(values) + right(values),
+            BinaryOperator.Subtract => values => left(values) - right(values),
+            BinaryOperator.Multiply => values => left(values) * right(values),
+            _ => values => left(values) / right(values),
         };
     }
 
@@ -109,20 +122,28 @@ internal sealed record BinaryNode(BinaryOperator Operator, ExpressionNode Left, 
     /// off; (a*a)*a rounds twice), and edge values agree (signed zeros, infinities, NaN).
     /// Any other exponent, or one not known at compile time, calls Math.Pow.
     /// </summary>
-    private static Expression EmitPower(Expression basis, ExpressionNode exponent, ParameterExpression values)
+    private static Func<double[], double> PowerClosure(Func<double[], double> basis, ExpressionNode exponent)
     {
-        if (exponent is NumberNode { Value: 2 or 3 or -1 } number)
+        switch (exponent)
         {
-            var a = Expression.Variable(typeof(double), "basis");
-            var power = number.Value switch
-            {
-                2 => Expression.Multiply(a, a),
-                3 => Expression.Multiply(Expression.Multiply(a, a), a),
-                _ => (Expression)Expression.Divide(Expression.Constant(1.0), a),
-            };
-            return Expression.Block(typeof(double), [a], Expression.Assign(a, basis), power);
+            case NumberNode { Value: 2 }:
+                return values =>
+                {
+                    var a = basis(values);
+                    return a * a;
+                };
+            case NumberNode { Value: 3 }:
+                return values =>
+                {
+                    var a = basis(values);
+                    return a * a * a;
+                };
+            case NumberNode { Value: -1 }:
+                return values => 1 / basis(values);
+            default:
+                var power = exponent.Closure();
+                return values => Math.Pow(basis(values), power(values));
         }
-        return Expression.Call(typeof(Math).GetMethod(nameof(Math.Pow))!, basis, exponent.Emit(values));
     }
 }
 
@@ -140,6 +161,5 @@ internal sealed record CallNode(DeckFunction Function, IReadOnlyList<ExpressionN
     public override int Depth { get; } = Arguments.Max(a => a.Depth) + 1;
 
     /// <inheritdoc />
-    public override Expression Emit(ParameterExpression values)
-        => Function.Emit(Arguments.Select(a => a.Emit(values)).ToArray());
+    public override Func<double[], double> Closure() => Function.Closure([.. Arguments.Select(a => a.Closure())]);
 }
