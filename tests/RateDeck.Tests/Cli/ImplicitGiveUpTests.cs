@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Text;
 using System.Text.Json;
 using System.Text.RegularExpressions;
 using RateDeck.Cli;
@@ -88,6 +89,30 @@ public sealed partial class ImplicitGiveUpTests : IDisposable
         Assert.Equal(("failed", "8"), (Cell(1, "status"), Cell(1, "exit_code")));
         Assert.StartsWith("ratedeck run: exact path: the implicit integrator gave up after 2,000,000 steps", Cell(1, "message"), StringComparison.Ordinal);
         Assert.False(Directory.Exists(Path.Combine(sweep, "point-0001")));
+    }
+
+    [Fact]
+    public void Fit_WhenTheKeptPathGivesUpAtTheStartValues_ExitsEightAndWritesNothing()
+    {
+        // The stiff deck with its rate free, fitted to more data times than the integrator has steps.
+        var deck = WriteDeck("fit.toml", "rate", "[parameters]\nrate = 1e7\n", "[fit.free]\nrate = { log = true }\n[fit.data.dense]\ncsv = \"dense.csv\"\n");
+        var data = new StringBuilder("t,s1\n");
+        for (var k = 1; k <= _outputs; k++)
+        {
+            data.Append(CultureInfo.InvariantCulture, $"{k * 1e-5:0.#####},0.88\n");
+        }
+
+        File.WriteAllText(_folder.File("dense.csv"), data.ToString());
+        var entries = _folder.Entries();
+
+        var (code, output, error) = CliRunner.Run("fit", deck, "--out", _folder.File("out"));
+
+        Assert.True(code == ExitCodes.IntegrationGaveUp, $"exit {code}: {error}");
+        Assert.Equal("", output);
+        var line = Assert.Single(error.Split('\n', StringSplitOptions.RemoveEmptyEntries));
+        Assert.StartsWith("ratedeck fit: the implicit integrator gave up after 2,000,000 steps", line, StringComparison.Ordinal);
+        Assert.Contains("fewer output or data times", line, StringComparison.Ordinal);
+        Assert.Equal(entries, _folder.Entries());
     }
 
     /// <summary>
