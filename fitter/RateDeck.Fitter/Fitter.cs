@@ -5,6 +5,7 @@ using RateDeck.Fitting.Optimization;
 using RateDeck.Fitting.Report;
 using RateDeck.Fitting.Setup;
 using RateDeck.LinearAlgebra;
+using RateDeck.Propagation;
 using RateDeck.Text;
 
 namespace RateDeck.Fitting;
@@ -149,6 +150,11 @@ public static class Fitter
         {
             problem.Predict(values);
             return new DeckException(problem.DataSets[0].Spec.Span, "the model gives non-finite values at the start; check the start values and the observables");
+        }
+        catch (InfeasibleTrialException e) when (e.InnerException is IntegrationGaveUpException gaveUp)
+        {
+            // The integrator's refusal of these data times (exit 8), not a start the deck rejects (exit 2).
+            throw gaveUp;
         }
         catch (InfeasibleTrialException e)
         {

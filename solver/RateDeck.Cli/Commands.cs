@@ -128,7 +128,8 @@ public static class Commands
         if (ReferenceEquals(command, root))
         {
             output.WriteLine("Exit codes: 0 ok, 1 internal error, 2 bad deck or command line, 3 unsafe time step, 4 check failed,");
-            output.WriteLine("5 output not written, 6 fit not converged, 7 sweep points failed or missing, 130 stopped by SIGINT, 143 by SIGTERM (docs/cli.md).");
+            output.WriteLine("5 output not written, 6 fit not converged, 7 sweep points failed or missing, 8 integrator gave up (step limit),");
+            output.WriteLine("130 stopped by SIGINT, 143 by SIGTERM (docs/cli.md).");
         }
     }
 
@@ -165,6 +166,11 @@ public static class Commands
         {
             stderr.WriteLine($"ratedeck {name}: {e.Message}");
             return ExitCodes.BadInput;
+        }
+        catch (Propagation.IntegrationGaveUpException e)
+        {
+            stderr.WriteLine($"ratedeck {name}: {e.Message}; no result was written: fewer output or data times, or an earlier last one, need fewer steps");
+            return ExitCodes.IntegrationGaveUp;
         }
         catch (IOException e)
         {

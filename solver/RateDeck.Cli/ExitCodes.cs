@@ -29,6 +29,13 @@ public static class ExitCodes
     /// <summary><c>ratedeck sweep</c> and <c>collect</c>: the summary is written, and some points failed or have no results yet (its status column says which).</summary>
     public const int PointsFailed = 7;
 
+    /// <summary>
+    /// The implicit integrator, as the exact path (the one the deck needs, or <c>--exact implicit</c>),
+    /// gave up at its step limit before the last output or data time: no number of it is printed or
+    /// written. Not a bug: fewer or earlier output (or data) times need fewer steps.
+    /// </summary>
+    public const int IntegrationGaveUp = 8;
+
     /// <summary>Stopped by SIGINT (Ctrl-C): 128 + 2, as shells report it. Temporary files were removed; the output folder holds the earlier run's files or all of this run's, never a mix.</summary>
     public const int Interrupted = 130;
 

@@ -229,6 +229,7 @@ public sealed class DataSetModel
 
     /// <summary>Each column's model curve at <paramref name="times"/> (for plots).</summary>
     /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
+    /// <exception cref="IntegrationGaveUpException">The kept path is the implicit integrator and it gave up before the last of <paramref name="times"/>.</exception>
     public double[][] Curves(Deck deck, double[] times)
     {
         var trajectory = Propagate(deck, times);
@@ -237,11 +238,17 @@ public sealed class DataSetModel
 
     /// <summary>The populations at <paramref name="times"/> on the kept path.</summary>
     /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
-    public Trajectory Propagate(Deck deck, double[] times) => Evaluate(deck, times).Exact;
+    /// <exception cref="IntegrationGaveUpException">The kept path is the implicit integrator and it gave up before the last of <paramref name="times"/>.</exception>
+    public Trajectory Propagate(Deck deck, double[] times) => Evaluate(deck, times, trial: false).Exact;
 
-    /// <summary>A run of <paramref name="deck"/> on the kept path whose exact trajectory is computed.</summary>
+    /// <summary>
+    /// A run of <paramref name="deck"/> on the kept path whose exact trajectory is computed. In a
+    /// <paramref name="trial"/> of the optimizer an integrator that gives up makes the trial
+    /// infeasible (the optimizer steps back); elsewhere its give-up is thrown as it is.
+    /// </summary>
     /// <exception cref="InfeasibleTrialException">The deck cannot be assembled or propagated at these values.</exception>
-    private DeckRun Evaluate(Deck deck, double[] times)
+    /// <exception cref="IntegrationGaveUpException">Not a <paramref name="trial"/>, and the implicit integrator gave up.</exception>
+    private DeckRun Evaluate(Deck deck, double[] times, bool trial = true)
     {
         TrajectoryEvaluations++;
         try
@@ -250,7 +257,8 @@ public sealed class DataSetModel
             _ = run.Exact;
             return run;
         }
-        catch (Exception e) when (e is DeckException or ArgumentException or InvalidOperationException or MechanicsException or ArithmeticException)
+        catch (Exception e) when (e is DeckException or ArgumentException or InvalidOperationException or MechanicsException or ArithmeticException
+            || (trial && e is IntegrationGaveUpException))
         {
             throw new InfeasibleTrialException(e is DeckException deckError ? deckError.Problem : e.Message, e);
         }

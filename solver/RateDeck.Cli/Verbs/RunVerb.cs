@@ -65,8 +65,36 @@ public sealed class RunVerb : IVerb
         return code;
     }
 
-    /// <summary>Runs <paramref name="loaded"/> with <paramref name="settings"/>: the work of the verb after its command line is read.</summary>
+    /// <summary>
+    /// Runs <paramref name="loaded"/> with <paramref name="settings"/>: the work of the verb after its
+    /// command line is read. An exact path that gives up is refused with exit 8 before any file is written.
+    /// </summary>
     internal static int Execute(LoadedDeck loaded, RunSettings settings, VerbContext context)
+    {
+        try
+        {
+            return Run(loaded, settings, context);
+        }
+        catch (IntegrationGaveUpException e)
+        {
+            // The implicit cross-check beside another exact path never reaches here (DeckRun.ImplicitNotDone).
+            var remedies = new List<string> { "ask for fewer output times (run.outputs or run.times) or a shorter run.t_end" };
+            if (loaded.Rates.Origin == Rates.BalanceOrigin.CompletedByDetailedBalance && loaded.Rates.Count <= Spectrum.ExtendedPrecisionStateLimit)
+            {
+                remedies.Add("take the double-double eigen path, which serves this deck (--exact extended)");
+            }
+
+            if (settings.ExactPath == "implicit")
+            {
+                remedies.Add("drop --exact implicit to let run choose the path");
+            }
+
+            context.Error.WriteLine($"ratedeck run: exact path: {e.Message}; nothing was written: {string.Join(", or ", remedies)}");
+            return ExitCodes.IntegrationGaveUp;
+        }
+    }
+
+    private static int Run(LoadedDeck loaded, RunSettings settings, VerbContext context)
     {
         var step = settings.Step;
         var run = new DeckRun(loaded, new RunOptions
@@ -123,6 +151,11 @@ public sealed class RunVerb : IVerb
             context.Error.WriteLine($"ratedeck run: {refused}");
         }
 
+        if (run.ImplicitNotDone is { } gaveUp)
+        {
+            context.Error.WriteLine($"ratedeck run: the implicit cross-check (--implicit) was not done, the results are the exact path's: {gaveUp}");
+        }
+
 
         var explicitMethod = explicitWanted ? VerbSupport.MethodName(run.Method) : null;
         if (settings.Json)
@@ -133,7 +166,8 @@ public sealed class RunVerb : IVerb
             fields["spectrum_coverage"] = run.Spectrum.Coverage;
             fields["explicit_method"] = explicitMethod;
             fields["explicit_declined"] = run.ExplicitDeclined;
-            fields["implicit_steps"] = run.ImplicitPropagator?.Statistics;
+            fields["implicit_steps"] = run.ImplicitNotDone is null ? run.ImplicitPropagator?.Statistics : null;
+            fields["implicit_not_done"] = run.ImplicitNotDone;
             fields["implicit_vs_exact_max_abs_difference"] = run.ImplicitDifference?.MaxAbsolute;
             fields["implicit_vs_exact_max_rel_difference"] = run.ImplicitDifference?.MaxRelative;
             fields["dt"] = explicitWanted ? dt : null;
@@ -182,7 +216,11 @@ public sealed class RunVerb : IVerb
                 context.Out.WriteLine($"explicit     {declined}");
             }
 
-            if (run.ImplicitPropagator is { } implicitPropagator && !ReferenceEquals(implicitPropagator, exactPropagator))
+            if (run.ImplicitNotDone is { } notDone)
+            {
+                context.Out.WriteLine($"implicit     not done: {notDone}");
+            }
+            else if (run.ImplicitPropagator is { } implicitPropagator && !ReferenceEquals(implicitPropagator, exactPropagator))
             {
                 context.Out.WriteLine($"implicit     {implicitPropagator.Reason}; {implicitPropagator.Statistics}");
             }

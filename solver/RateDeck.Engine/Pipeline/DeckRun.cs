@@ -30,6 +30,7 @@ public sealed class DeckRun
     private SteadyStateResult? _steady;
     private ImplicitSdirkPropagator? _implicitPropagator;
     private Trajectory? _implicit;
+    private string? _implicitNotDone;
     private AccurateStep? _accurate;
     private bool _accurateChosen;
 
@@ -193,6 +194,7 @@ public sealed class DeckRun
         : ExactPropagatorChoice.Choose(Loaded.Rates, Loaded.Algebra, Balance, Initial, Spectrum, Times[^1]);
 
     /// <summary>P at <see cref="Times"/> by exact propagation.</summary>
+    /// <exception cref="IntegrationGaveUpException">The exact path is the implicit integrator and it gave up before the last output time.</exception>
     /// <exception cref="DeckException">A population overflows the largest double (pumping near 1e308, say): no number of it could be trusted.</exception>
     public Trajectory Exact => _exact ??= Finite(Propagate(ExactPropagator, "exact"));
 
@@ -206,9 +208,47 @@ public sealed class DeckRun
     public ImplicitSdirkPropagator? ImplicitPropagator => !Options.WithImplicit ? null
         : _implicitPropagator ??= ExactPropagator as ImplicitSdirkPropagator ?? new ImplicitSdirkPropagator(Loaded.Rates);
 
-    /// <summary>P at <see cref="Times"/> by the implicit integrator; null without <see cref="RunOptions.WithImplicit"/>.</summary>
-    public Trajectory? Implicit => ImplicitPropagator is not { } propagator ? null
-        : _implicit ??= ReferenceEquals(propagator, ExactPropagator) ? Exact : Propagate(propagator, "implicit");
+    /// <summary>
+    /// P at <see cref="Times"/> by the implicit integrator; null without <see cref="RunOptions.WithImplicit"/>,
+    /// or when it gave up beside another exact path (<see cref="ImplicitNotDone"/>). When the implicit
+    /// integrator is the exact path, its give-up is the exact path's (<see cref="Exact"/> throws).
+    /// </summary>
+    public Trajectory? Implicit
+    {
+        get
+        {
+            if (ImplicitPropagator is not { } propagator || _implicitNotDone is not null)
+            {
+                return null;
+            }
+
+            if (ReferenceEquals(propagator, ExactPropagator))
+            {
+                return _implicit ??= Exact;
+            }
+
+            try
+            {
+                return _implicit ??= Propagate(propagator, "implicit");
+            }
+            catch (IntegrationGaveUpException e)
+            {
+                // The exact path has the answer; a cross-check that cannot finish is reported as not done, not failed.
+                _implicitNotDone = e.Message;
+                return null;
+            }
+        }
+    }
+
+    /// <summary>Why the implicit cross-check beside another exact path was not done (it gave up); null when it was done or not asked for.</summary>
+    public string? ImplicitNotDone
+    {
+        get
+        {
+            _ = Implicit;
+            return _implicitNotDone;
+        }
+    }
 
     /// <summary>The largest differences of <see cref="Implicit"/> from <see cref="Exact"/>; null without <see cref="RunOptions.WithImplicit"/>.</summary>
     public TrajectoryDifference? ImplicitDifference => Implicit is { } implicitResult ? TrajectoryComparison.Compare(Exact, implicitResult) : null;

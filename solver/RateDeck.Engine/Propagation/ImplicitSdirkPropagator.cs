@@ -40,7 +40,7 @@ public sealed class ImplicitSdirkPropagator : IPropagator
     /// <summary>Absolute tolerance of the local error, as a fraction of the population scale.</summary>
     public const double AbsoluteTolerance = 1e-22;
 
-    /// <summary>Steps after which the integration gives up (a deck crossing that many time scales is better served by another path).</summary>
+    /// <summary>Steps after which the integration gives up with <see cref="IntegrationGaveUpException"/> (a deck crossing that many time scales, or asking for that many output times, is better served by another path or fewer outputs).</summary>
     public const int MaxSteps = 2_000_000;
 
     private const double _gamma = 0.25;
@@ -102,6 +102,7 @@ public sealed class ImplicitSdirkPropagator : IPropagator
     public string Statistics => string.Create(CultureInfo.InvariantCulture, $"{AcceptedSteps} steps, {RejectedSteps} rejected, {Factorizations} factorizations");
 
     /// <inheritdoc />
+    /// <exception cref="IntegrationGaveUpException"><see cref="MaxSteps"/> steps were taken and the last output time is not reached.</exception>
     public Trajectory Propagate(double[] initial, IReadOnlyList<double> times, IProgress<double>? progress = null)
     {
         PropagationInput.Check(_n, initial, times);
@@ -131,6 +132,12 @@ public sealed class ImplicitSdirkPropagator : IPropagator
         {
             while (t < times[k])
             {
+                if (AcceptedSteps + RejectedSteps >= MaxSteps)
+                {
+                    throw new IntegrationGaveUpException(string.Create(CultureInfo.InvariantCulture,
+                        $"the implicit integrator gave up after {MaxSteps:N0} steps, its limit ({AcceptedSteps:N0} accepted, {RejectedSteps:N0} rejected), at t = {Text.Format.Time(t, _rates.TimeUnit)} of {Text.Format.Time(end, _rates.TimeUnit)}, with {k:N0} of {times.Count:N0} output times reached"));
+                }
+
                 var remaining = times[k] - t;
                 var step = Math.Min(h, remaining);
                 if (remaining - step < 1e-12 * remaining)
@@ -156,11 +163,6 @@ public sealed class ImplicitSdirkPropagator : IPropagator
                 else
                 {
                     RejectedSteps++;
-                }
-
-                if (AcceptedSteps + RejectedSteps > MaxSteps)
-                {
-                    throw new InvalidOperationException(string.Create(CultureInfo.InvariantCulture, $"the implicit integrator gave up after {MaxSteps} steps at t = {t:G6}"));
                 }
 
                 // A step clipped to reach an output time does not set the next step size, unless it failed.
