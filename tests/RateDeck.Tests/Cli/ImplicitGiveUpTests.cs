@@ -24,6 +24,7 @@ public sealed partial class ImplicitGiveUpTests : IDisposable
 
     public void Dispose() => _folder.Dispose();
 
+    [Trait("Through", "program")]
     [Theory]
     // A rate of 1e7 /s run to 21 s: t_end eps rho = 5.3e-8 > 1e-8, so the dense eigen paths are
     // declined and the implicit integrator is the exact path run chooses (docs/stiff-decks.md).
@@ -49,6 +50,7 @@ public sealed partial class ImplicitGiveUpTests : IDisposable
         Assert.Equal(entries, _folder.Entries());
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Run_WhenTheImplicitComparisonGivesUpBesideTheEigenPath_ReportsItNotDoneAndKeepsTheExactResults()
     {
@@ -74,6 +76,7 @@ public sealed partial class ImplicitGiveUpTests : IDisposable
         Assert.True(File.Exists(Path.Combine(output, "populations-exact.csv")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Sweep_APointWhoseExactPathGivesUp_IsAFailedRowWithExitCodeEight()
     {
@@ -91,6 +94,7 @@ public sealed partial class ImplicitGiveUpTests : IDisposable
         Assert.False(Directory.Exists(Path.Combine(sweep, "point-0001")));
     }
 
+    [Trait("Through", "program")]
     [Fact]
     public void Fit_WhenTheKeptPathGivesUpAtTheStartValues_ExitsEightAndWritesNothing()
     {
