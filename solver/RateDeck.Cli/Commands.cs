@@ -39,6 +39,11 @@ public static class Commands
             return ExitCodes.BadInput;
         }
 
+        if (args[0] == CompleteWord)
+        {
+            return Complete(root, args[1..], stdout);
+        }
+
         var parse = root.Parse(args, _parserConfiguration);
         var command = parse.CommandResult.Command;
         if (parse.Action is HelpAction)
@@ -62,6 +67,38 @@ public static class Commands
         return Execute(verb, new VerbArguments(parse), new VerbContext(stdout, stderr));
     }
 
+    /// <summary>
+    /// The first argument that asks for shell completion instead of a run: <c>ratedeck [complete]
+    /// WORD... CURRENT</c> prints, one per line, what may stand in place of CURRENT (the word being
+    /// typed, possibly empty) after the WORDs: verbs and an option's values, or options once CURRENT
+    /// starts with '-'. The bash function in docs/cli.md calls it; when nothing is printed (a deck
+    /// path, say) the shell completes file names.
+    /// </summary>
+    public const string CompleteWord = "[complete]";
+
+    private static int Complete(Command root, string[] words, TextWriter stdout)
+    {
+        var current = words.Length > 0 ? words[^1] : "";
+        var before = words.Length > 0 ? words[..^1] : [];
+        // The parser completes the word at the end of the line it is given: the words before, then
+        // the current one, or a trailing space when the current word is still empty.
+        var line = string.Join(' ', before.Select(Quote).Append(current.Length == 0 ? "" : Quote(current)));
+        var parse = root.Parse(line, _parserConfiguration);
+        var offered = parse.GetCompletions(line.Length).Select(c => c.Label)
+            .Where(label => label.StartsWith(current, StringComparison.Ordinal))
+            .Where(label => label.StartsWith('-') == current.StartsWith('-'))
+            .Where(label => label != "-?" && !label.StartsWith('/'))   // of the help option's aliases, --help and -h are offered
+            .Distinct(StringComparer.Ordinal);
+        foreach (var completion in offered)
+        {
+            stdout.WriteLine(completion);
+        }
+
+        return ExitCodes.Success;
+
+        static string Quote(string word) => word.Contains(' ', StringComparison.Ordinal) ? $"\"{word}\"" : word;
+    }
+
     private static string Usage(Argument argument) => argument.Arity.MinimumNumberOfValues > 0 ? argument.Name : $"[{argument.Name}]";
 
     private static IVerb[] Verbs() => [new CheckVerb(), new StiffnessVerb(), new RunVerb(), new SteadyVerb(), new FitVerb(), new SweepVerb(), new CollectVerb(), new InitVerb(), new ResolveVerb()];
@@ -78,7 +115,9 @@ public static class Commands
             root.Subcommands.Add(verb.Command);
         }
 
-        root.Subcommands.Add(new Command(_helpVerb, "show the verbs, or one verb's options") { new Argument<string?>("VERB") { Description = "the verb to describe", Arity = ArgumentArity.ZeroOrOne } });
+        var described = new Argument<string?>("VERB") { Description = "the verb to describe", Arity = ArgumentArity.ZeroOrOne };
+        described.CompletionSources.Add([.. verbs.Select(v => v.Command.Name)]);
+        root.Subcommands.Add(new Command(_helpVerb, "show the verbs, or one verb's options") { described });
 
         return root;
     }

@@ -53,16 +53,24 @@ internal static class VerbOptions
     public static Option<T?> Choice<T>(string name, string description, params (string Word, T Value)[] choices) where T : struct
     {
         var words = choices.Select(c => c.Word).ToArray();
-        return Single<T?>(name, string.Join('|', words), description, text =>
+        return Completing(Single<T?>(name, string.Join('|', words), description, text =>
             choices.FirstOrDefault(c => c.Word == text.ToLowerInvariant()) is { Word: not null } match
                 ? match.Value
-                : throw new UsageException($"{name} takes {Alternatives(words)}, not '{text}'"));
+                : throw new UsageException($"{name} takes {Alternatives(words)}, not '{text}'")), words);
     }
 
     /// <summary>An option taking one of a fixed set of words (any case), kept as the lower-case word.</summary>
     public static Option<string?> Word(string name, string description, params string[] words) =>
-        Single<string?>(name, string.Join('|', words), description, text =>
-            words.Contains(text.ToLowerInvariant()) ? text.ToLowerInvariant() : throw new UsageException($"{name} takes {Alternatives(words)}, not '{text}'"));
+        Completing(Single<string?>(name, string.Join('|', words), description, text =>
+            words.Contains(text.ToLowerInvariant()) ? text.ToLowerInvariant() : throw new UsageException($"{name} takes {Alternatives(words)}, not '{text}'")), words);
+
+    /// <summary><paramref name="option"/>, offering <paramref name="words"/> to shell completion (and not an enum's member names).</summary>
+    private static Option<T> Completing<T>(Option<T> option, string[] words)
+    {
+        option.CompletionSources.Clear();
+        option.CompletionSources.Add(words);
+        return option;
+    }
 
     /// <summary>An option whose value is a positive finite number.</summary>
     public static Option<double?> PositiveNumber(string name, string valueName, string description) =>

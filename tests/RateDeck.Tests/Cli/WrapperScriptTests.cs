@@ -83,6 +83,17 @@ public sealed class WrapperScriptTests
     }
 
     [Fact]
+    public async Task CompletionOnAStaleCheckout_OffersNothingAndDoesNotBuild()
+    {
+        using var checkout = new ScratchCheckout();
+
+        var run = await RunScriptAsync(checkout.Root, checkout.Environment(), "[complete]", "ch");
+
+        Assert.Equal((0, "", ""), (run.Code, run.Out, run.Error));
+        Assert.Equal(0, checkout.Builds());
+    }
+
+    [Fact]
     public async Task UnknownBuildKind_IsRefusedBeforeBuilding()
     {
         using var checkout = new ScratchCheckout();
