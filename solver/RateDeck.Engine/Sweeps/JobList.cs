@@ -7,7 +7,7 @@ namespace RateDeck.Sweeps;
 
 /// <summary>
 /// A sweep handed to existing batch engines instead of run in one process: <c>jobs.txt</c>, one
-/// shell command line per point (a complete <c>ratedeck run</c>, or <c>fit</c>, that writes the point's folder and
+/// shell command line per point (a complete <c>ratedeck run --quiet</c>, or <c>fit</c>, that writes the point's folder and
 /// status file exactly as the in-process sweep does), for GNU parallel
 /// (<c>parallel --jobs 8 &lt; DIR/jobs.txt</c>), and <c>slurm-array.sh</c>, a Slurm job-array
 /// script whose task k runs line k + 1. Paths are written as given, relative to the folder the
@@ -38,6 +38,9 @@ public static partial class JobList
         }
 
         words.AddRange(manifest.RunArguments);
+        // One summary line per job: GNU parallel's output and Slurm's logs stay readable for
+        // hundreds of points, and collect reads every result from the point's folder anyway.
+        words.Add("--quiet");
         words.AddRange(["--out", folder.PointPath(point.Name), "--status-file", folder.StatusPath(point.Name)]);
         return string.Join(' ', words.Select(Quote));
     }

@@ -70,7 +70,7 @@ public sealed class FitSweepTests : IDisposable
         Assert.Equal(ExitCodes.Success, CliRunner.Run([.. sweep, "--emit-jobs", jobs]).ExitCode);
 
         var lines = File.ReadAllLines(Path.Combine(jobs, "jobs.txt"));
-        Assert.Equal($"ratedeck fit {FitDeck} --set fit.starts=1 --set parameters.alpha=0.5 --no-plots --out {jobs}/point-0000 --status-file {jobs}/status/point-0000.csv", lines[0]);
+        Assert.Equal($"ratedeck fit {FitDeck} --set fit.starts=1 --set parameters.alpha=0.5 --no-plots --quiet --out {jobs}/point-0000 --status-file {jobs}/status/point-0000.csv", lines[0]);
         foreach (var line in lines)
         {
             // The deck path and folders have no spaces here, so the words split on spaces.

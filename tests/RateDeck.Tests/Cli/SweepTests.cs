@@ -217,7 +217,7 @@ public sealed class SweepTests : IDisposable
         Assert.True(code == ExitCodes.Success, error);
         var lines = File.ReadAllLines(Path.Combine(jobs, "jobs.txt"));
         Assert.Equal(4, lines.Length);
-        Assert.Equal($"ratedeck run {TwoLevel} --set temperature.kT=0.04 --no-plots --out {jobs}/point-0001 --status-file {jobs}/status/point-0001.csv", lines[1]);
+        Assert.Equal($"ratedeck run {TwoLevel} --set temperature.kT=0.04 --no-plots --quiet --out {jobs}/point-0001 --status-file {jobs}/status/point-0001.csv", lines[1]);
         var script = File.ReadAllText(Path.Combine(jobs, "slurm-array.sh"));
         Assert.Contains("#SBATCH --array=0-3\n", script, StringComparison.Ordinal);
         Assert.Contains("$((SLURM_ARRAY_TASK_ID + 1))p", script, StringComparison.Ordinal);
@@ -250,10 +250,12 @@ public sealed class SweepTests : IDisposable
         var stdout = parallel.StandardOutput.ReadToEndAsync();
         var stderr = parallel.StandardError.ReadToEnd();
         parallel.WaitForExit();
-        _ = stdout.Result;
 
-        // GNU parallel's exit status is the number of failed jobs: the two kT <= 0 points.
+        // GNU parallel's exit status is the number of failed jobs: the two kT <= 0 points; each
+        // of the other three prints its one --quiet summary line.
         Assert.True(parallel.ExitCode == 2, stderr);
+        Assert.All(stdout.Result.Split('\n', StringSplitOptions.RemoveEmptyEntries), line => Assert.StartsWith($"run {TwoLevel}: ", line, StringComparison.Ordinal));
+        Assert.Equal(3, stdout.Result.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
         var collected = CliRunner.Run("collect", jobs);
         Assert.Equal(ExitCodes.PointsFailed, collected.ExitCode);
         Assert.Equal(File.ReadAllBytes(Path.Combine(inProcess, "summary.csv")), File.ReadAllBytes(Path.Combine(jobs, "summary.csv")));
