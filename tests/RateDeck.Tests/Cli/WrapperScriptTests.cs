@@ -83,6 +83,36 @@ public sealed class WrapperScriptTests
     }
 
     [Fact]
+    public async Task NativeBuildFailing_FallsBackToReadyToRun_SayingWhy()
+    {
+        using var checkout = new ScratchCheckout();
+
+        var run = await RunScriptAsync(checkout.Root, checkout.Environment(("FAKE_NATIVE_ERROR", "ILC: the linker failed")), "check", "deck.toml");
+
+        Assert.Equal(0, run.Code);
+        Assert.Equal($"program {Path.Combine(checkout.Published, "ratedeck.dll")} check deck.toml\n", run.Out);
+        var lines = run.Error.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(4, lines.Length);
+        Assert.StartsWith("ratedeck: the native build failed (its messages are in ", lines[1], StringComparison.Ordinal);
+        Assert.EndsWith("; building ReadyToRun instead (RATEDECK_BUILD=readytorun skips the native attempt)", lines[1], StringComparison.Ordinal);
+        Assert.Equal("ratedeck: built; running", lines[3]);
+        Assert.Equal(2, checkout.Builds());
+    }
+
+    [Fact]
+    public async Task NativeBuildAskedForAndFailing_ShowsItsMessages_AndRunsNothing()
+    {
+        using var checkout = new ScratchCheckout();
+
+        var run = await RunScriptAsync(checkout.Root, checkout.Environment(("RATEDECK_BUILD", "native"), ("FAKE_NATIVE_ERROR", "ILC: the linker failed")), "check", "deck.toml");
+
+        Assert.Equal((1, ""), (run.Code, run.Out));
+        Assert.Contains("ILC: the linker failed", run.Error, StringComparison.Ordinal);
+        Assert.Contains("ratedeck: the build failed", run.Error, StringComparison.Ordinal);
+        Assert.Equal(1, checkout.Builds());
+    }
+
+    [Fact]
     public async Task CompletionOnAStaleCheckout_OffersNothingAndDoesNotBuild()
     {
         using var checkout = new ScratchCheckout();
@@ -230,6 +260,7 @@ public sealed class WrapperScriptTests
                 sleep "${FAKE_BUILD_SECONDS:-0}"
                 if [ -n "${FAKE_BUILD_ERROR:-}" ]; then echo "$FAKE_BUILD_ERROR"; exit 1; fi
                 native=no; case "$*" in *RateDeckNative=true*) native=yes ;; esac
+                if [ $native = yes ] && [ -n "${FAKE_NATIVE_ERROR:-}" ]; then echo "$FAKE_NATIVE_ERROR"; exit 1; fi
                 while [ "$1" != -o ]; do shift; done
                 mkdir -p "$2"
                 if [ $native = yes ]; then
