@@ -12,7 +12,8 @@ namespace RateDeck.Tests.Cli;
 
 /// <summary>
 /// A seeded fuzz test (issue 9 §8): the demo decks and their rate files, mutated in process, go
-/// through <c>ratedeck check</c>, and those that check clean and stay small also through
+/// through <c>ratedeck check</c> (in process, and in the pass over the published program as one
+/// process per command, about four minutes), and those that check clean and stay small also through
 /// <c>ratedeck run --exact-only --no-plots</c>. Every case must end in a clean result (exit 0, 3
 /// or 4) or a located error (exit 2 and one line <c>file:line:column: message</c>); never an
 /// internal error, a stack trace or an unhandled exception. The seed is fixed and printed; set
@@ -44,6 +45,7 @@ public sealed partial class DeckFuzzTests(ITestOutputHelper output) : IDisposabl
 
     public void Dispose() => _folder.Dispose();
 
+    [Trait("Through", "program")]
     [Fact]
     public void TenThousandMutatedDemoDecksAndRateFiles_EndInACleanResultOrALocatedError()
     {
