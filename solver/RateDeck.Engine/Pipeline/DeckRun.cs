@@ -33,6 +33,8 @@ public sealed class DeckRun
     private string? _implicitNotDone;
     private AccurateStep? _accurate;
     private bool _accurateChosen;
+    private double? _exactConservationDrift;
+    private bool _exactConservationDriftMeasured;
 
     /// <summary>Prepares the stages of <paramref name="loaded"/>; nothing is computed yet.</summary>
     public DeckRun(LoadedDeck loaded, RunOptions? options = null)
@@ -199,7 +201,20 @@ public sealed class DeckRun
     public Trajectory Exact => _exact ??= Finite(Propagate(ExactPropagator, "exact"));
 
     /// <summary>How far <see cref="Exact"/> lets a conserved total move (<see cref="ConservationDrift"/>); null when the deck does not conserve it.</summary>
-    public double? ExactConservationDrift => ConservationDrift.Of(Loaded.Rates, Exact);
+    public double? ExactConservationDrift
+    {
+        get
+        {
+            // Null is a result here (a deck that does not conserve its total), so a flag marks it measured.
+            if (!_exactConservationDriftMeasured)
+            {
+                _exactConservationDrift = ConservationDrift.Of(Loaded.Rates, Exact);
+                _exactConservationDriftMeasured = true;
+            }
+
+            return _exactConservationDrift;
+        }
+    }
 
     /// <summary>The explicit propagator at <see cref="ExplicitStep"/>; null with <see cref="RunOptions.ExactOnly"/> or when <see cref="ExplicitDeclined"/>.</summary>
     public FixedStepPropagator? ExplicitPropagator => Options.ExactOnly || ExplicitDeclined is not null ? null : _explicitPropagator ??= ExplicitPropagatorChoice.Create(Loaded.Rates, Method, ExplicitStep);
