@@ -72,9 +72,15 @@ public static class ExactPropagatorChoice
 
         spectrum ??= Spectrum.Compute(rates, la, balance);
         // The contour path forms no eigenvalues, so slow modes a spectrum loses in rounding do not touch it.
-        if (balance.SymmetrizesWithDeckEquilibrium && rates.IsSparse && Contour(rates, balance.SymmetryReason, initial, out _) is { } contour)
+        (ContourExponentialPropagator Propagator, double Estimate)? declinedContour = null;
+        if (balance.SymmetrizesWithDeckEquilibrium && rates.IsSparse)
         {
-            return contour;
+            if (Contour(rates, balance.SymmetryReason, initial, out var tried) is { } contour)
+            {
+                return contour;
+            }
+
+            declinedContour = tried;
         }
 
         if (StiffChoice(rates, spectrum, horizon) is { } stiff)
@@ -83,16 +89,17 @@ public static class ExactPropagatorChoice
         }
 
         return balance.SymmetrizesWithDeckEquilibrium
-            ? ChooseSymmetric(rates, la, balance.SymmetryReason, initial, spectrum)
+            ? ChooseSymmetric(rates, la, balance.SymmetryReason, initial, spectrum, declinedContour)
             : ChooseGeneral(rates, la, balance.SymmetryReason, spectrum);
     }
 
-    private static IPropagator ChooseSymmetric(RateMatrix rates, ILinearAlgebra la, string balance, double[]? initial, Spectrum? spectrum)
+    // declinedContour: the contour path Choose tried for a sparse K and declined for its rounding,
+    // with its estimate (for the refusal's message); null for a dense K.
+    private static IPropagator ChooseSymmetric(RateMatrix rates, ILinearAlgebra la, string balance, double[]? initial, Spectrum? spectrum,
+        (ContourExponentialPropagator Propagator, double Estimate)? declinedContour)
     {
-        if (rates.IsSparse && rates.Count > DenseStorage.StateLimit)
+        if (declinedContour is { } rejected && rates.Count > DenseStorage.StateLimit)
         {
-            // Reached only when the contour path was declined for its rounding (see Choose).
-            _ = Contour(rates, balance, initial, out var rejected);
             throw new DenseStorageException(Format(
                 $"no exact path fits: pi spans {rejected.Propagator.EquilibriumDecades:F0} decades, so the sparse contour path's rounding for {(initial is null ? "the worst initial state" : "this initial state")} is estimated at {Text.Format.Number(rejected.Estimate)} of the population (> {Text.Format.Number(SymmetricEigenPropagator.RelativeErrorLimit)}), and the dense Pade path needs more than the {DenseStorage.StateLimit}-state limit"));
         }
