@@ -38,4 +38,25 @@ public sealed class SparseRunTests
             }
         }
     }
+
+    [Trait("Through", "program")]
+    [Fact]
+    public void Run_OnASparseLadderTooSteepForTheContourPathAndTooLargeForADenseOne_RefusesAndWritesNothing()
+    {
+        // pi_i proportional to e^(-0.07 i) over 13,000 states spans 0.07 * 12,999 / ln 10 = 395.2
+        // decades (arithmetic). From the least probable state the contour path's rounding is far
+        // above the 1e-9 the exact paths keep, and 13,000 states are above the dense paths' limit:
+        // no exact path can be trusted, so the run must refuse rather than print populations.
+        const int n = 13_000;
+        using var folder = new TempFolder();
+        var deck = folder.File("steep.toml");
+        File.WriteAllText(deck, UniformLadder.Deck(n, slope: 0.07, endTime: 100, outputs: 5, start: n));
+
+        var (code, output, error) = CliRunner.Run("run", deck, "--exact-only", "--no-plots", "--out", folder.File("out"));
+
+        Assert.Equal(ExitCodes.BadInput, code);
+        Assert.Equal("", output);
+        Assert.StartsWith("ratedeck run: no exact path fits: pi spans 395 decades, so the sparse contour path's rounding for this initial state is estimated at ", error, StringComparison.Ordinal);
+        Assert.False(Directory.Exists(folder.File("out")));
+    }
 }
